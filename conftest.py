@@ -1,0 +1,3 @@
+"""Repository-level pytest configuration."""
+
+collect_ignore = ["ledger/__main__.py"]

@@ -1,0 +1,5 @@
+"""Allow ``python -m ledger``."""
+
+from ledger.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,1 @@
+"""Physics on top of the engine: expansions, operators, backgrounds."""

@@ -1,0 +1,64 @@
+"""Known identities between modular graph functions, as a data table.
+
+Each row rewrites one graph function (its left side) as a combination of
+simpler ones; the right sides never contain a left side, so substituting them
+in any order terminates.  Every row names its published source and is checked
+numerically in tests/amplitudes/test_identities.py.
+
+>>> from ledger.expr import parse
+>>> apply_identities(parse("3*C(1,1,1) - 3*E(3)"))
+3*zeta(3)
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import sympy
+
+
+@dataclass(frozen=True)
+class Identity:
+    """lhs = rhs in the plain-text expression syntax, with its source."""
+
+    lhs: str
+    rhs: str
+    source: str
+
+    def rule(self) -> tuple:
+        """The (atom, replacement) pair as sympy expressions."""
+        from ledger.expr import parse
+
+        return parse(self.lhs), parse(self.rhs)
+
+
+IDENTITIES: tuple[Identity, ...] = (
+    Identity("C(1,1,1)", "E(3) + zeta(3)",
+             "D. Zagier (unpublished); D'Hoker, Green, Vanhove 2015, arXiv:1502.06698"),
+    Identity("C(2,2,1)", "2/5*E(5) + zeta(5)/30",
+             "D'Hoker, Green, Vanhove 2015, arXiv:1502.06698; D'Hoker, Green 2016, arXiv:1603.00839"),
+    Identity("C(1,1,1,1)", "24*C(2,1,1) - 18*E(4) + 3*E(2)^2",
+             "D'Hoker, Green, Vanhove 2015, arXiv:1502.06698; D'Hoker, Green 2016, arXiv:1603.00839"),
+)
+
+
+def substitution_rules() -> dict:
+    """{atom: replacement} for every row of the table."""
+    return dict(identity.rule() for identity in IDENTITIES)
+
+
+def apply_identities(expr):
+    """Rewrite every graph function that is the left side of a row, then expand.
+
+    >>> from ledger.expr import parse
+    >>> from ledger.expr import to_text
+    >>> to_text(apply_identities(parse("C(1,1,1,1) - 24*C(2,1,1)")))
+    '-18*E(4) + 3*E(2)^2'
+    """
+    rules = substitution_rules()
+    current = sympy.sympify(expr)
+    while True:
+        rewritten = current.xreplace(rules)
+        if rewritten == current:
+            return sympy.expand(current)
+        current = rewritten

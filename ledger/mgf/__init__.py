@@ -1,0 +1,1 @@
+"""The modular-graph engine: pure computation, no I/O, no UI."""
