@@ -10,11 +10,16 @@ graphs (or zero).  Collecting by kinematics,
 
     B = sum_{p,q} B_(p,q)(tau) sigma_2^p sigma_3^q / (p! q!).
 
+G is the engine's scalar Green's function, G(z) = sum' tau2/(pi |p|^2) exp(2 pi i <p, z>)
+over lattice momenta p (zero mean), so that an edge of weight a carries
+(tau2/pi)^a / |p|^(2a) as in :mod:`ledger.mgf.graph`.
+
 The raw result keeps each B_(p,q) as a :data:`GraphSum`, a map from a product of
 canonical graphs to its rational coefficient.
 
->>> expansion = expand_genus_one(3)
+>>> from ledger.amplitudes.operators import format_structure
 >>> from ledger.expr import to_text
+>>> expansion = expand_genus_one(3)
 >>> for structure, b in expansion.coefficients.items():
 ...     print(format_structure(structure), "->", to_text(graph_sum_expression(b)))
 1 -> 1
@@ -32,8 +37,7 @@ from typing import Optional
 import sympy
 
 from ledger.amplitudes.operators import (
-    BinaryForm, Structure, format_structure, mandelstam_form, sigma_coordinates,
-    structures_through,
+    BinaryForm, Structure, mandelstam_form, sigma_coordinates, structures_through,
 )
 from ledger.errors import LedgerError
 from ledger.mgf.graph import Graph, canonical_form, reduce_graph

@@ -1,9 +1,10 @@
 """Known identities between modular graph functions, as a data table.
 
 Each row rewrites one graph function (its left side) as a combination of
-simpler ones; the right sides never contain a left side, so substituting them
-in any order terminates.  Every row names its published source and is checked
-numerically in tests/amplitudes/test_identities.py.
+simpler ones, in the form the source states it; a right side may contain the
+left side of another row but the rows never form a cycle, so substituting
+until nothing changes terminates.  Every row names its published source and is
+checked numerically in tests/amplitudes/test_identities.py.
 
 >>> from ledger.expr import parse
 >>> apply_identities(parse("3*C(1,1,1) - 3*E(3)"))
@@ -39,6 +40,13 @@ IDENTITIES: tuple[Identity, ...] = (
              "D'Hoker, Green, Vanhove 2015, arXiv:1502.06698; D'Hoker, Green 2016, arXiv:1603.00839"),
     Identity("C(1,1,1,1)", "24*C(2,1,1) - 18*E(4) + 3*E(2)^2",
              "D'Hoker, Green, Vanhove 2015, arXiv:1502.06698; D'Hoker, Green 2016, arXiv:1603.00839"),
+    # 40 C(2,1,1,1) = 300 C(3,1,1) + 120 E(2) E(3) - 276 E(5) + 7 zeta(5), divided by 40
+    Identity("C(2,1,1,1)", "15/2*C(3,1,1) + 3*E(2)*E(3) - 69/10*E(5) + 7/40*zeta(5)",
+             "D'Hoker, Green, Vanhove 2015, arXiv:1502.06698; D'Hoker, Kaidi 2016, "
+             "arXiv:1608.04393 (recalled from memory)"),
+    Identity("C(1,1,1,1,1)", "60*C(3,1,1) + 10*E(2)*C(1,1,1) - 48*E(5) + 16*zeta(5)",
+             "D'Hoker, Green, Vanhove 2015, arXiv:1502.06698; D'Hoker, Kaidi 2016, "
+             "arXiv:1608.04393 (recalled from memory)"),
 )
 
 

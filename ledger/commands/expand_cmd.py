@@ -123,9 +123,14 @@ def wrap_terms(text: str, width: int, lead: str) -> str:
 
 
 def add_to_project(path: str, payload: dict) -> dict:
-    """Add one computed entry per coefficient; entries already present are left untouched."""
+    """Add one computed entry per coefficient; entries already present are left untouched.
+
+    An existing entry counts as equal when the difference vanishes after the identities
+    of the table (so a raw and a reduced form of the same coefficient agree).
+    """
     from ledger import ENGINE_VERSION
     from ledger.amplitudes.backgrounds import get_background
+    from ledger.amplitudes.identities import apply_identities
     from ledger.book import Background, Project, Provenance, default_conventions
     from ledger.expr import parse
 
@@ -150,7 +155,7 @@ def add_to_project(path: str, payload: dict) -> dict:
     for row in payload["coefficients"]:
         existing = project.find(background.id, payload["genus"], row["operator"], (row["p"], row["q"]))
         if existing is not None:
-            same = parse(existing.coefficient) - parse(row["expr"]) == 0
+            same = apply_identities(parse(existing.coefficient) - parse(row["expr"])) == 0
             (unchanged if same else differing).append(existing.id)
             continue
         entry = project.add_entry(background=background.id, genus=payload["genus"],

@@ -2,7 +2,10 @@
 
 A :class:`Value` holds an mpmath number (real or complex), an upper bound on
 its absolute error, and the number of significant digits that were asked for.
-Arithmetic propagates the error bounds to first order plus the product term.
+Arithmetic propagates the error bounds to first order plus the product term,
+and is carried out in a private mpmath context at the operands' precision
+plus guard digits (never in the global ``mpmath.mp``, whose 15 digits would
+silently round a 30-digit value); results are exported without rounding.
 
 >>> import mpmath
 >>> a = Value(mpmath.mpf("1.5"), mpmath.mpf("1e-20"), 20)
@@ -13,6 +16,10 @@ mpf('3.0')
 2e-20
 >>> a.correct_digits() >= 19
 True
+>>> ctx = mpmath.MPContext(); ctx.dps = 40
+>>> third = Value(ctx.mpf(1) / 3, mpmath.mpf(0), 40)
+>>> mpmath.libmp.to_str((third + third).value._mpf_, 35)
+'0.66666666666666666666666666666666667'
 """
 
 from __future__ import annotations
@@ -38,8 +45,10 @@ class Value:
 
     def __add__(self, other: "Value") -> "Value":
         other = _as_value(other, self.digits)
-        return Value(self.value + other.value, self.error + other.error,
-                     min(self.digits, other.digits))
+        ctx = _context(self, other)
+        total = ctx.convert(self.value) + ctx.convert(other.value)
+        error = ctx.convert(self.error) + ctx.convert(other.error)
+        return Value(_export(total), _export(error), min(self.digits, other.digits))
 
     __radd__ = __add__
 
@@ -54,9 +63,11 @@ class Value:
 
     def __mul__(self, other: "Value") -> "Value":
         other = _as_value(other, self.digits)
-        err = (abs(self.value) * other.error + abs(other.value) * self.error
-               + self.error * other.error)
-        return Value(self.value * other.value, err, min(self.digits, other.digits))
+        ctx = _context(self, other)
+        a, b = ctx.convert(self.value), ctx.convert(other.value)
+        ea, eb = ctx.convert(self.error), ctx.convert(other.error)
+        error = abs(a) * eb + abs(b) * ea + ea * eb
+        return Value(_export(a * b), _export(error), min(self.digits, other.digits))
 
     __rmul__ = __mul__
 
@@ -78,7 +89,36 @@ class Value:
         return float(mpmath.log10(size / self.error))
 
 
+def _bits(x) -> int:
+    raw = getattr(x, "_mpf_", None)
+    if raw is not None:
+        return raw[3] if raw[1] else 0  # mantissa bit count
+    raw = getattr(x, "_mpc_", None)
+    if raw is not None:
+        return max((part[3] if part[1] else 0) for part in raw)
+    return 0
+
+
+def _context(*values: Value):
+    """A private context wide enough for the operands (digits asked, mantissas held)."""
+    ctx = mpmath.MPContext()
+    bits = max(max(_bits(v.value) for v in values), max(v.digits for v in values) * 3.33)
+    ctx.prec = int(bits) + 64
+    return ctx
+
+
+def _export(x):
+    """The same number as a global-context mpf/mpc, without rounding it."""
+    if hasattr(x, "_mpc_"):
+        return mpmath.mp.make_mpc(x._mpc_)
+    return mpmath.mp.make_mpf(x._mpf_)
+
+
 def _as_value(x, digits: int) -> Value:
     if isinstance(x, Value):
         return x
-    return Value.exact(mpmath.mpmathify(x), digits)
+    if hasattr(x, "_mpf_") or hasattr(x, "_mpc_"):
+        return Value.exact(_export(x), digits)
+    ctx = mpmath.MPContext()
+    ctx.dps = digits + 20
+    return Value.exact(_export(ctx.convert(x)), digits)

@@ -62,23 +62,28 @@ def coefficient_unicode(text: str) -> str:
 
 
 def sympy_unicode(text: str) -> str:
-    """A sympy-parsable constant (zeta values, pi, rationals) as screen math.
+    """A sympy-parsable constant (zeta values, pi, rationals, decimals) as screen math.
 
     >>> sympy_unicode("zeta(3)/3 + pi**2/6")
     'ζ(3)/3 + π²/6'
+    >>> sympy_unicode("-zeta(3)**2/4")
+    '−ζ(3)²/4'
     """
-    from ledger.expr import to_unicode
-
     try:
         value = sympy.sympify(text)
-        return _fraction_form(to_unicode(value))
-    except (sympy.SympifyError, TypeError, SyntaxError, AttributeError):
+    except (sympy.SympifyError, TypeError, SyntaxError):
         return text
+    return _unicode_sstr(sympy.sstr(value))
 
 
-def _fraction_form(text: str) -> str:
-    # "1/6 π²" reads better as "π²/6" when the numerator is 1
-    return re.sub(r"(?<![\w)/])1/(\d+) ([^ +−]+)", r"\2/\1", text)
+def _unicode_sstr(text: str) -> str:
+    text = re.sub(r"\bzeta\(", "ζ(", text)
+    text = re.sub(r"\bpi\b", "π", text)
+    text = re.sub(r"\bEulerGamma\b", "γ", text)
+    text = re.sub(r"\bsqrt\(", "√(", text)
+    text = re.sub(r"\*\*(?:\((-\d+)\)|(\d+))", lambda m: superscript(m.group(1) or m.group(2)), text)
+    text = re.sub(r"(?<=\d)\*(?=\d)", "·", text)
+    return text.replace("*", "").replace("-", "−")
 
 
 def laurent_unicode(laurent: dict) -> str:
@@ -86,43 +91,28 @@ def laurent_unicode(laurent: dict) -> str:
 
     >>> laurent_unicode({"variable": "y", "terms": [{"power": -1, "coefficient": "zeta(3)"},
     ...                                          {"power": 2, "coefficient": "1/45"}]})
-    'y²/45 + ζ(3) y⁻¹'
+    'y²/45 + ζ(3)/y'
     """
-    variable = laurent.get("variable", "y")
+    variable = sympy.Symbol(laurent.get("variable", "y"), positive=True)
     pieces = []
     for term in sorted(laurent.get("terms", []), key=lambda t: -int(t["power"])):
-        power = int(term["power"])
-        if _is_zero(term["coefficient"]):
+        try:
+            coefficient = sympy.sympify(str(term["coefficient"]))
+        except (sympy.SympifyError, TypeError, SyntaxError):
+            pieces.append(f"({term['coefficient']}) {variable}{superscript(term['power'])}")
             continue
-        coefficient = sympy_unicode(str(term["coefficient"]))
-        monomial = "" if power == 0 else variable + ("" if power == 1 else superscript(power))
-        pieces.append(_term(coefficient, monomial))
+        if coefficient == 0:
+            continue
+        piece = _unicode_sstr(sympy.sstr(coefficient * variable ** int(term["power"])))
+        if term.get("error"):
+            piece += f" (± {error_text(str(term['error']))} in the coefficient)"
+        pieces.append(piece)
     if not pieces:
         return "0"
     text = pieces[0]
     for piece in pieces[1:]:
         text += " − " + piece[1:] if piece.startswith("−") else " + " + piece
     return text
-
-
-def _is_zero(text) -> bool:
-    try:
-        return sympy.sympify(str(text)) == 0
-    except (sympy.SympifyError, TypeError, SyntaxError):
-        return False
-
-
-def _term(coefficient: str, monomial: str) -> str:
-    if not monomial:
-        return coefficient
-    if coefficient in ("1", "−1"):
-        return coefficient[:-1] + monomial
-    match = re.fullmatch(r"(−?)1/(\d+)", coefficient)
-    if match:
-        return f"{match.group(1)}{monomial}/{match.group(2)}"
-    if " + " in coefficient or " − " in coefficient[1:]:
-        coefficient = f"({coefficient})"
-    return f"{coefficient} {monomial}"
 
 
 def short_number(text: str, significant: int = 8) -> str:
@@ -161,11 +151,11 @@ def grouped_digits(text: str, group: int = 5) -> str:
 
 
 def value_line(record: dict) -> str:
-    """One stored value at a reference point, with its error and digits."""
+    """One stored value at a reference point: the digits, then error, digits and engine."""
     value = grouped_digits(record.get("value", "?"))
     error = error_text(record.get("error", "")) if record.get("error") else "no error estimate"
     engine = f", engine {record['engine']}" if record.get("engine") else ""
-    return f"{value}  ± {error}  ({record.get('digits', '?')} digits{engine})"
+    return f"{value}\n± {error}  ({record.get('digits', '?')} digits{engine})"
 
 
 def integral_short(integral: dict) -> str:

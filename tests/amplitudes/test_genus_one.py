@@ -6,7 +6,7 @@ from fractions import Fraction
 
 import pytest
 
-from ledger.amplitudes.genus_one import expand_genus_one, genus_one_coefficients
+from ledger.amplitudes.genus_one import _weight_forms, expand_genus_one, genus_one_coefficients
 from ledger.amplitudes.operators import Structure, structures_through
 from ledger.errors import LedgerError
 from ledger.expr import parse
@@ -27,6 +27,8 @@ def test_no_weight_one_structure():
     assert [s.weight for s in expand_genus_one(7).coefficients] == [
         s.weight for s in structures_through(7)]
     assert 1 not in {s.weight for s in expand_genus_one(7).coefficients}
+    # and the weight-1 part of the integrand itself, sum s_ij G_ij, integrates to zero
+    assert _weight_forms(1, {}) == {}
 
 
 def test_d4r4_is_e2():

@@ -68,6 +68,9 @@ def test_published_low_orders():
     #     + 2/27 (2 zeta(3)^3 + zeta(9)) sigma3^2 + ...
     # Green, Russo, Vanhove 2008, arXiv:0801.0322; D'Hoker, Green, Vanhove 2015,
     # arXiv:1502.06698 (from memory).  Our basis divides by p! q!.
+    # Derivation of the two lowest: in T = (3/sigma3) exp(2 zeta3 sigma3/3 + 2 zeta5 sigma5/5
+    # + ...), sigma5 = 5/6 sigma2 sigma3 (Newton, sigma1 = 0) gives zeta5 sigma2 sigma3/3, so
+    # the sigma2 coefficient is zeta5; the square (2 zeta3 sigma3/3)^2/2 gives 2/3 zeta3^2 sigma3.
     expected = {
         Structure(0, 0): "2*zeta(3)",
         Structure(1, 0): "zeta(5)",

@@ -1,0 +1,1 @@
+"""Full screens, one per file: overview, entry, compute, plot, diff, export, conventions, help."""

@@ -1,0 +1,1 @@
+"""Widgets, one per file, grouped by the screen area that uses them."""

@@ -1,0 +1,126 @@
+"""Renormalised integrals over the fundamental domain: both routes, published values.
+
+References: Vol(F) = pi/3 (handbook); the renormalised integral of E_s vanishes
+(D. Zagier 1981, the Rankin-Selberg method for functions not of rapid decay);
+C(1,1,1) = E(3) + zeta(3) (D. Zagier; D'Hoker, Green, Vanhove 2015, arXiv:1502.06698),
+hence pi zeta(3)/3.  Numerical values of E_s come from the handbook Fourier series
+(tests/mgf/eisenstein_reference.py), of C(2,1,1) from the position-space evaluator.
+"""
+
+import json
+import subprocess
+import sys
+
+import mpmath
+import pytest
+import sympy
+
+from eisenstein_reference import eisenstein_reference
+from ledger.errors import LedgerError
+from ledger.expr import parse
+from ledger.mgf.integrate import (
+    integrate_over_fundamental_domain, laplace_route_integral, quadrature_integral,
+)
+from ledger.mgf.laurent import laurent_polynomial
+from ledger.mgf.rankin_selberg import eisenstein_product_integral
+from ledger.mgf.values import Value
+
+CTX = mpmath.MPContext()
+CTX.dps = 50
+
+
+def eisenstein_products(*orders):
+    """values(tau, digits) of prod E_s from the reference series."""
+    def values(tau, digits):
+        product, error = CTX.one, CTX.zero
+        for s in orders:
+            v = eisenstein_reference(s, tau, digits + 3)
+            x, e = CTX.convert(v.value), CTX.convert(v.error)
+            error = abs(product) * e + abs(x) * error + error * e
+            product *= x
+        return Value(product, error, digits)
+    return values
+
+
+def quadrature(text, values, digits=15):
+    expr = parse(text)
+    return quadrature_integral(expr, laurent_polynomial(expr), digits, values=values)
+
+
+def assert_within(result: Value, expected, digits):
+    true_error = abs(CTX.convert(result.value) - CTX.convert(expected))
+    assert true_error <= result.error, (result, expected)
+    assert result.error < CTX.mpf(10) ** (-digits) * max(1, abs(CTX.convert(expected)))
+
+
+def test_volume():
+    # Vol(F) = pi/3 (handbook)
+    assert integrate_over_fundamental_domain(parse("1")).exact == sympy.pi / 3
+    assert_within(quadrature("1", lambda tau, d: Value(CTX.one, CTX.zero, d)), CTX.pi / 3, 20)
+
+
+@pytest.mark.parametrize("s", [2, 3, 4])
+def test_eisenstein_integrates_to_zero(s):
+    # Zagier 1981: the renormalised integral of E_s vanishes; route (a) must agree
+    assert integrate_over_fundamental_domain(parse(f"E({s})")).exact == 0
+    assert_within(quadrature(f"E({s})", eisenstein_products(s)), 0, 14)
+
+
+def test_c111():
+    # C(1,1,1) = E(3) + zeta(3)  =>  pi zeta(3)/3
+    result = integrate_over_fundamental_domain(parse("C(1,1,1)"))
+    assert result.exact == sympy.pi * sympy.zeta(3) / 3 and result.route == "laplace"
+
+
+@pytest.mark.parametrize("s1,s2", [(2, 2), (2, 3), (3, 3)])
+def test_rankin_selberg_against_quadrature(s1, s2):
+    # the closed forms of ledger.mgf.rankin_selberg (derived there by Zagier's method) against route (a)
+    exact = eisenstein_product_integral(s1, s2)
+    numeric = quadrature(f"E({s1})*E({s2})", eisenstein_products(s1, s2), 20)
+    assert_within(numeric, sympy.N(exact, 40), 19)
+
+
+def test_dropped_terms():
+    # E(2)^2 = y^4/2025 + 2 zeta(3) y/45 + zeta(3)^2/y^2: int_1^L gives pi^4/6075 L^3 and pi 2 zeta(3)/45 log L
+    result = integrate_over_fundamental_domain(parse("E(2)^2"))
+    assert result.divergent_terms == ((3, sympy.pi ** 4 / 6075),)
+    assert result.log_coefficient == 2 * sympy.pi * sympy.zeta(3) / 45
+
+
+def test_laplace_route_availability():
+    assert laplace_route_integral(parse("C(2,1,1) - E(3)*E(4)")) is not None
+    assert laplace_route_integral(parse("E(2)^3")) is None
+    with pytest.raises(LedgerError):
+        integrate_over_fundamental_domain(parse("C(1,1,1,1,1)"), route="laplace")
+    with pytest.raises(LedgerError):
+        integrate_over_fundamental_domain(parse("E(2)"), route="sideways")
+
+
+@pytest.mark.slow
+def test_c211_two_routes_agree():
+    # route (b): (Delta - 2) C(2,1,1) = 9 E(4) - E(2)^2 (D'Hoker, Green, Vanhove 2015,
+    # arXiv:1502.06698) with the Rankin-Selberg value of E(2)^2; route (a): quadrature of
+    # values from the position-space evaluator
+    from ledger.mgf.dihedral import dihedral_value
+
+    result = integrate_over_fundamental_domain(
+        parse("C(2,1,1)"), digits=10, route="both",
+        values=lambda tau, d: dihedral_value((2, 1, 1), tau, d))
+    ((name, numeric),) = result.checks
+    assert name == "quadrature" and result.route == "laplace"
+    assert_within(numeric, sympy.N(result.exact, 40), 10)
+
+
+def run_cli(*args):
+    return subprocess.run([sys.executable, "-m", "ledger", *args], capture_output=True, text=True, timeout=120)
+
+
+def test_cli_json():
+    result = run_cli("integrate", "C(1,1,1) + 2", "--json")
+    assert result.returncode == 0, result.stderr
+    payload = json.loads(result.stdout)
+    assert payload["exact"] is True
+    assert sympy.simplify(sympy.sympify(payload["value"]) - (sympy.pi * sympy.zeta(3) / 3 + 2 * sympy.pi / 3)) == 0
+    assert payload["log_coefficient"] == "0"
+    assert payload["divergent_terms"] == [{"power": 2, "coefficient": "pi**3/945"}]
+    assert float(payload["error"]) < 1e-14
