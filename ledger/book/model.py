@@ -17,29 +17,19 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass, field
 
+from ledger.amplitudes.operators import Structure, format_structure, parse_operator, parse_structure
 from ledger.errors import LedgerError, ProjectError
 
 STATUSES = ("verified", "unverified", "conflict")
 PROVENANCE_KINDS = ("computed", "reference")
 _ARXIV = re.compile(r"^(\d{4}\.\d{4,5}|[a-z\-]+(\.[A-Z]{2})?/\d{7})(v\d+)?$")
-_OPERATOR = re.compile(r"^(?:R\^4|D\^(\d+)R\^4)$")
-_STRUCTURE_FACTOR = re.compile(r"^sigma([23])(?:\^(\d+))?$")
-
-
 def operator_weight(label: str) -> int:
     """The weight w of an operator label D^{2w}R^4 (R^4 has w = 0).
 
     >>> operator_weight("D^8R^4"), operator_weight("R^4")
     (4, 0)
     """
-    match = _OPERATOR.match(label.replace(" ", "")) if isinstance(label, str) else None
-    if not match:
-        raise LedgerError(f"operator {label!r} is not of the form R^4 or D^<2k>R^4")
-    power = int(match.group(1) or 0)
-    if power % 2 or power == 2:
-        raise LedgerError(f"operator {label!r}: D^{power}R^4 has no sigma structure "
-                          "(the derivative order must be even and not 2, since sigma_1 = 0)")
-    return power // 2
+    return parse_operator(label).weight
 
 
 def structure_exponents(label: str) -> tuple[int, int]:
@@ -48,18 +38,8 @@ def structure_exponents(label: str) -> tuple[int, int]:
     >>> structure_exponents("sigma2 sigma3"), structure_exponents("1")
     ((1, 1), (0, 0))
     """
-    if not isinstance(label, str):
-        raise LedgerError(f"structure must be text like 'sigma2^2', got {label!r}")
-    if label.strip() == "1":
-        return (0, 0)
-    exponents = {2: 0, 3: 0}
-    for factor in label.split():
-        match = _STRUCTURE_FACTOR.match(factor)
-        if not match:
-            raise LedgerError(f"structure {label!r}: cannot read {factor!r} "
-                              "(expected sigma2, sigma3, sigma2^p or sigma3^q)")
-        exponents[int(match.group(1))] += int(match.group(2) or 1)
-    return exponents[2], exponents[3]
+    structure = parse_structure(label)
+    return structure.p, structure.q
 
 
 def structure_label(p: int, q: int) -> str:
@@ -68,8 +48,7 @@ def structure_label(p: int, q: int) -> str:
     >>> structure_label(2, 0), structure_label(1, 1), structure_label(0, 0)
     ('sigma2^2', 'sigma2 sigma3', '1')
     """
-    parts = [f"sigma{k}" + (f"^{n}" if n > 1 else "") for k, n in ((2, p), (3, q)) if n]
-    return " ".join(parts) or "1"
+    return format_structure(Structure(p, q))
 
 
 def _take(data: dict, key: str, kind, where: str, required: bool = True, default=None):

@@ -74,6 +74,23 @@ def exact_text(value) -> str:
     return sympy.sstr(sympy.nsimplify(value) if isinstance(value, sympy.Float) else value)
 
 
+DEFAULT_DIGITS = 30
+
+
+def record_digits(record: dict, default: int = DEFAULT_DIGITS) -> int:
+    """The 'digits' field of a derived record (a positive integer), or ``default``.
+
+    >>> record_digits({"digits": 20}), record_digits({})
+    (20, 30)
+    """
+    digits = record.get("digits", default) if isinstance(record, dict) else default
+    if digits is None:
+        return default
+    if isinstance(digits, bool) or not isinstance(digits, int) or not 1 <= digits <= 1000:
+        raise LedgerError(f"'digits' must be a positive integer, got {digits!r}")
+    return digits
+
+
 @lru_cache(maxsize=64)
 def working_context(digits: int) -> mpmath.MPContext:
     """A private mpmath context with ``digits`` plus guard digits (never the global one).

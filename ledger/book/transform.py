@@ -52,12 +52,11 @@ from ledger.book.conventions import (
     amplitude_scale, green_scale, laurent_variable_scale, mandelstam_scale, measure_scale,
     validate_conventions,
 )
-from ledger.book.quantities import exact_text, parse_exact, scale_number, working_context
+from ledger.book.quantities import (
+    exact_text, parse_exact, record_digits, scale_number, working_context,
+)
 from ledger.errors import ConventionError, LedgerError
 from ledger.expr import atoms
-
-DEFAULT_DIGITS = 30
-
 
 def graph_scale(normalisation: str, atom):
     """The factor k with atom (project normalisation) = k * atom (engine normalisation).
@@ -165,7 +164,7 @@ def convert_laurent(laurent: dict, source: dict, target: dict, factor=1) -> dict
     source_variable = variable_of(laurent, source)
     ratio = laurent_variable_scale(source_variable) / laurent_variable_scale(target["laurent_variable"])
     exact = bool(laurent.get("exact", False))
-    digits = int(laurent.get("digits", DEFAULT_DIGITS))
+    digits = record_digits(laurent)
     terms = []
     for term in laurent["terms"]:
         power = _integer(term.get("power"), "laurent: power")
@@ -203,7 +202,7 @@ def convert_integral(integral: dict, source: dict, target: dict, factor=1) -> di
         raise LedgerError("integral: expected a table")
     source, target = _complete(source), _complete(target)
     total = factor * measure_scale(target["measure"]) / measure_scale(source["measure"])
-    digits = int(integral.get("digits", DEFAULT_DIGITS))
+    digits = record_digits(integral)
     result = dict(integral)
     if integral.get("value") not in (None, ""):
         ctx = working_context(digits)
@@ -240,7 +239,7 @@ def convert_values(values: list, factor) -> list:
     for item in values:
         if not isinstance(item, dict) or "value" not in item:
             raise LedgerError("values: each item needs a 'value'")
-        digits = int(item.get("digits", DEFAULT_DIGITS))
+        digits = record_digits(item)
         ctx = working_context(digits)
         value, error = scale_number(item["value"], item.get("error", "0"), digits, factor, ctx)
         result.append({**item, "value": value, "error": error})
@@ -266,8 +265,13 @@ def convert_entry(entry, source: dict, target: dict):
 
     converted = copy.deepcopy(entry)
     weight = entry.weight
-    converted.coefficient = to_text(convert_coefficient(parse(entry.coefficient), source, target, weight))
-    converted.derived = convert_derived(entry.derived, source, target, weight)
+    try:
+        converted.coefficient = to_text(convert_coefficient(parse(entry.coefficient), source, target, weight))
+        converted.derived = convert_derived(entry.derived, source, target, weight)
+    except ConventionError:
+        raise
+    except LedgerError as error:
+        raise LedgerError(f"entry {entry.id}: {error}") from None
     return converted
 
 

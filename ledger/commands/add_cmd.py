@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from ledger import ENGINE_VERSION
+from ledger.amplitudes.operators import structures_of_weight
 from ledger.book import Project, Provenance, structure_label
 from ledger.commands.common import print_json
 from ledger.errors import LedgerError
@@ -27,11 +28,6 @@ def register(subparsers) -> None:
     parser.set_defaults(run=run)
 
 
-def structures_of(weight: int) -> list[tuple[int, int]]:
-    """All (p, q) with 2p + 3q = weight."""
-    return [(p, (weight - 2 * p) // 3) for p in range(weight // 2 + 1) if (weight - 2 * p) % 3 == 0]
-
-
 def run(args) -> int:
     from ledger.book import operator_weight
     from ledger.expr import parse, to_text
@@ -40,7 +36,7 @@ def run(args) -> int:
     weight = operator_weight(args.operator)
     structure = args.structure
     if structure is None:
-        options = structures_of(weight)
+        options = [(o.p, o.q) for o in structures_of_weight(weight)]
         if len(options) != 1:
             labels = " or ".join(repr(structure_label(*o)) for o in options)
             raise LedgerError(f"{args.operator} has {len(options)} sigma structures: "

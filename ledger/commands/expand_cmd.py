@@ -10,12 +10,9 @@ from __future__ import annotations
 import shutil
 
 from ledger.commands.common import print_json
-from ledger.errors import ConventionError, NotAvailableError
+from ledger.errors import NotAvailableError
 
 DEFAULT_BACKGROUND = "flat-iib"
-# The conventions that change the coefficients themselves (the others only
-# change derived data such as Laurent polynomials and integrals).
-_COEFFICIENT_CONVENTIONS = ("mandelstam", "graph_normalisation", "green_function", "amplitude_factor")
 
 
 def register(subparsers) -> None:
@@ -34,6 +31,9 @@ def register(subparsers) -> None:
                         help=f"background id (default {DEFAULT_BACKGROUND})")
     parser.add_argument("--into", metavar="PROJECT",
                         help="also add the coefficients to this project file as computed entries")
+    parser.add_argument("--no-derive", action="store_true",
+                        help="with --into: add coefficients only, without Laurent polynomials, "
+                             "integrals and reference values")
     parser.add_argument("--json", action="store_true")
     parser.set_defaults(run=run)
 
@@ -68,7 +68,7 @@ def run(args) -> int:
     payload = compute(args.order, args.tree, args.reduce, args.background)
     added = None
     if args.into:
-        added = add_to_project(args.into, payload)
+        added = add_to_project(args.into, payload, derive=not args.no_derive)
     if args.json:
         if added is not None:
             payload = {**payload, "project": added}
@@ -122,57 +122,26 @@ def wrap_terms(text: str, width: int, lead: str) -> str:
     return "\n".join(lines + [current])
 
 
-def add_to_project(path: str, payload: dict) -> dict:
-    """Add one computed entry per coefficient; entries already present are left untouched.
-
-    An existing entry counts as equal when the difference vanishes after the identities
-    of the table (so a raw and a reduced form of the same coefficient agree).
-    """
-    from ledger import ENGINE_VERSION
-    from ledger.amplitudes.backgrounds import get_background
-    from ledger.amplitudes.identities import apply_identities
-    from ledger.book import Background, Project, Provenance, default_conventions
-    from ledger.expr import parse
+def add_to_project(path: str, payload: dict, derive: bool = True, job=None) -> dict:
+    """Merge the expansion into the project file (see ledger.book.fill) and save if it changed."""
+    from ledger.book import Project
+    from ledger.book.fill import merge_expansion
 
     project = Project.load(path)
-    engine = default_conventions()
-    differing_conventions = [k for k in _COEFFICIENT_CONVENTIONS
-                             if project.conventions.get(k) != engine[k]]
-    if differing_conventions:
-        raise ConventionError(
-            f"{path}: declares {', '.join(f'{k}={project.conventions[k]}' for k in differing_conventions)}; "
-            "expand computes in the engine's conventions, so it does not add entries to this project")
-    background = get_background(payload["background"])
-    if project.background(background.id) is None:
-        project.add_background(Background(background.id, background.name, background.theory,
-                                          background.dimension, background.compactification,
-                                          {"supercharges": background.supercharges}))
-    note = ("tree level, T = Gamma(1-s)Gamma(1-t)Gamma(1-u)/(s t u Gamma(1+s)Gamma(1+t)Gamma(1+u)), "
-            "pole 3/sigma3 excluded" if payload["genus"] == 0 else
-            "genus-one integrand B_(p,q), " + ("after known identities" if payload["reduced"]
-                                               else "raw graph form"))
-    added, unchanged, differing = [], [], []
-    for row in payload["coefficients"]:
-        existing = project.find(background.id, payload["genus"], row["operator"], (row["p"], row["q"]))
-        if existing is not None:
-            same = apply_identities(parse(existing.coefficient) - parse(row["expr"])) == 0
-            (unchanged if same else differing).append(existing.id)
-            continue
-        entry = project.add_entry(background=background.id, genus=payload["genus"],
-                                  operator=row["operator"], structure=row["structure"],
-                                  coefficient=row["expr"], notes=note,
-                                  provenance=Provenance("computed", ENGINE_VERSION))
-        added.append(entry.id)
-    if added:
+    result = merge_expansion(project, payload, derive=derive, job=job)
+    if project.dirty:
         project.save()
-    return {"path": str(project.path), "added": added, "unchanged": unchanged,
-            "differing": differing}
+    return result
 
 
 def print_added(added: dict) -> None:
     print(f"{added['path']}: added {len(added['added'])} entries"
           + (f" ({', '.join(added['added'])})" if added["added"] else "")
+          + f", derived data updated for {len(added['updated'])}"
           + f", {len(added['unchanged'])} already present and equal")
+    if added["verified"]:
+        print(f"  cited entries confirmed by the computation (marked verified): "
+              f"{', '.join(added['verified'])}")
     if added["differing"]:
-        print(f"  already present with a different coefficient (left untouched): "
-              f"{', '.join(added['differing'])}")
+        print(f"  entries whose coefficient differs from the computation (marked conflict, "
+              f"coefficient left untouched): {', '.join(added['differing'])}")

@@ -30,7 +30,7 @@ from fractions import Fraction
 import mpmath
 import sympy
 
-from ledger.book.conventions import CONVENTION_KEYS, mandelstam_scale
+from ledger.book.conventions import CONVENTION_KEYS, convention_key, mandelstam_scale
 from ledger.book.transform import convert_entry, describe_change
 from ledger.compare.items import EntryComparison, Factor, compare_entries
 
@@ -111,7 +111,22 @@ class ProjectDiff:
 
 
 def diff_projects(first, second) -> ProjectDiff:
-    """Compare two projects; the second is aligned to the first's conventions."""
+    """Compare two projects; the second is aligned to the first's conventions.
+
+    >>> from ledger.book import Background, Project
+    >>> from ledger.book.transform import convert_project
+    >>> a = Project.new("A")
+    >>> a.add_background(Background("flat-iib", "Type IIB, flat", "IIB", 10, "none"))
+    >>> _ = a.add_entry(background="flat-iib", genus=1, operator="D^4R^4", structure="sigma2",
+    ...                 coefficient="E(2)")
+    >>> b = convert_project(a, {"mandelstam": "alpha'/2"})
+    >>> b.entries[0].coefficient, diff_projects(a, b).equal
+    ('1/4*E(2)', True)
+    >>> b.conventions["mandelstam"] = "alpha'/4"  # the data stay as they were
+    >>> d = diff_projects(a, b)
+    >>> d.entries[0].status, d.entries[0].factor.text(), d.cause.reading
+    ('different', '4', "alpha'/2")
+    """
     alignment = [AlignmentStep(key, second.conventions[key], first.conventions[key],
                                describe_change(key, second.conventions[key], first.conventions[key]))
                  for key in first.conventions if first.conventions[key] != second.conventions[key]]
@@ -213,7 +228,8 @@ def _project_cause(result: ProjectDiff, first_conventions: dict, second_conventi
                 _explains(relabel, e.first, e.second, first_conventions, second_conventions) for e in same):
             return relabel
     factors = [e.factor for e in matched]
-    if same or any(f is None for f in factors) or not all(factors[0].agrees(f) for f in factors[1:]):
+    if same or any(f is None or (f.exact is None and _is_complex(f.value)) for f in factors) \
+            or not all(factors[0].agrees(f) for f in factors[1:]):
         return None
     exact = next((f for f in factors if f.exact is not None), factors[0])
     declared = second_conventions["amplitude_factor"]
@@ -233,7 +249,7 @@ def _rational_root(factor: Factor, weight: int, sign: int):
         root = sympy.root(factor.exact ** sign, weight)
         small = root.is_Rational and root > 0 and max(root.p, root.q) <= _MAX_SCALE
         return root if small else None
-    if factor.value <= 0:
+    if _is_complex(factor.value) or factor.value <= 0:
         return None
     guess = Fraction(str(float(factor.value ** (mpmath.mpf(sign) / weight)))).limit_denominator(_MAX_SCALE)
     if guess <= 0 or guess.numerator > _MAX_SCALE:
@@ -241,12 +257,15 @@ def _rational_root(factor: Factor, weight: int, sign: int):
     return sympy.Rational(guess.numerator, guess.denominator)
 
 
+def _is_complex(value) -> bool:
+    return getattr(value, "imag", 0) != 0
+
+
 def _mandelstam_value(scale) -> str:
-    for key in CONVENTION_KEYS:
-        if key.name == "mandelstam":
-            for value, text in key.scales.items():
-                if sympy.sympify(text) == scale:
-                    return value
+    """The registry's name for a Mandelstam scale c, else alpha'=4/c."""
+    for value, text in convention_key("mandelstam").scales.items():
+        if sympy.sympify(text) == scale:
+            return value
     return f"alpha'={sympy.sstr(4 / scale)}"
 
 

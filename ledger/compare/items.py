@@ -20,12 +20,11 @@ from dataclasses import dataclass, field
 import mpmath
 import sympy
 
-from ledger.book.quantities import evaluate_exact, parse_exact, parse_number, working_context
+from ledger.book.quantities import (
+    DEFAULT_DIGITS, evaluate_exact, parse_exact, parse_number, record_digits, working_context,
+)
 from ledger.book.transform import convert_laurent, engine_form
 from ledger.expr import atoms, modular_atoms
-
-DEFAULT_DIGITS = 30
-
 
 @dataclass(frozen=True)
 class Factor:
@@ -114,7 +113,8 @@ class Number:
 
 
 def number_from(value_text, error_text, digits, exact_text=None) -> Number:
-    digits = int(digits or DEFAULT_DIGITS)
+    """A stored number from its texts (value and error decimals, optional exact form)."""
+    digits = record_digits({"digits": digits})
     ctx = working_context(digits)
     exact = parse_exact(exact_text) if exact_text else None
     if value_text in (None, "") and exact is not None:
@@ -151,7 +151,7 @@ def compare_numbers(item: str, a: Number, b: Number) -> ItemComparison:
 def compare_laurent(first: dict, second: dict) -> ItemComparison:
     """Term by term (both in the same variable); a pure factor if every term has the same ratio."""
     exact = bool(first.get("exact")) and bool(second.get("exact"))
-    digits = min(int(first.get("digits", DEFAULT_DIGITS)), int(second.get("digits", DEFAULT_DIGITS)))
+    digits = min(record_digits(first), record_digits(second))
     a_terms = {t["power"]: t["coefficient"] for t in first.get("terms", [])}
     b_terms = {t["power"]: t["coefficient"] for t in second.get("terms", [])}
     results = []

@@ -12,7 +12,11 @@ from ledger.compare.diff import STATUSES, EntryDiff, ProjectDiff
 
 
 def key_text(key: tuple) -> str:
-    """'flat-iib genus 1 D^4R^4 sigma2' for an Entry.key() tuple."""
+    """The words for an Entry.key() tuple.
+
+    >>> key_text(("flat-iib", 1, "D^10R^4", (1, 1)))
+    'flat-iib genus 1 D^10R^4 sigma2 sigma3'
+    """
     background, genus, operator, (p, q) = key
     return f"{background} genus {genus} {operator} {structure_label(p, q)}"
 

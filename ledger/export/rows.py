@@ -15,7 +15,8 @@ from dataclasses import dataclass
 import sympy
 
 from ledger.book.model import operator_weight, structure_exponents
-from ledger.book.quantities import parse_exact, parse_number, working_context
+from ledger.book.quantities import parse_exact, parse_number, record_digits, working_context
+from ledger.book.transform import convert_laurent
 from ledger.errors import LedgerError
 
 SELECT_KEYS = ("id", "background", "genus", "operator", "structure", "status", "source")
@@ -74,8 +75,7 @@ class Row:
 
     entry: object
     coefficient: object
-    laurent: list | None  # [(power, sympy constant or decimal text)]
-    laurent_exact: bool
+    laurent: list | None  # [(power, sympy constant or decimal text)], in the declared variable
     integral: object  # sympy constant, decimal text, or None
     log_coefficient: object
     source: str
@@ -83,32 +83,36 @@ class Row:
 
 def build_rows(project, entries) -> list[Row]:
     """Rows for the given entries, reading every derived record (bad data is bad input)."""
-    from ledger.expr import parse
-
     rows = []
     for entry in entries:
-        where = f"entry {entry.id}"
-        derived = entry.derived or {}
-        laurent, laurent_exact = None, False
-        if "laurent" in derived:
-            record = derived["laurent"]
-            laurent_exact = bool(record.get("exact"))
-            laurent = [(_power(t, where), _constant(t.get("coefficient"), laurent_exact,
-                                                    record.get("digits"), where))
-                       for t in record.get("terms", [])]
-        integral = log_coefficient = None
-        if "integral" in derived:
-            record = derived["integral"]
-            if record.get("exact"):
-                integral = parse_exact(record["exact"], f"{where}: integral")
-            elif record.get("value") not in (None, ""):
-                integral = _constant(record["value"], False, record.get("digits"), where)
-            if record.get("log_coefficient") not in (None, "", "0"):
-                log_coefficient = _constant(str(record["log_coefficient"]), False,
-                                            record.get("digits"), where)
-        rows.append(Row(entry, parse(entry.coefficient), laurent, laurent_exact, integral,
-                        log_coefficient, source_text(entry)))
+        try:
+            rows.append(_row(project, entry))
+        except LedgerError as error:
+            message = str(error)
+            raise LedgerError(message if message.startswith("entry ") else f"entry {entry.id}: {message}") \
+                from None
     return rows
+
+
+def _row(project, entry) -> Row:
+    from ledger.expr import parse
+
+    derived = entry.derived or {}
+    laurent = None
+    if "laurent" in derived:
+        record = convert_laurent(derived["laurent"], project.conventions, project.conventions)
+        exact, digits = bool(record.get("exact")), record_digits(record)
+        laurent = [(_power(t), _constant(t.get("coefficient"), exact, digits)) for t in record["terms"]]
+    integral = log_coefficient = None
+    if "integral" in derived:
+        record = derived["integral"]
+        if record.get("exact"):
+            integral = parse_exact(record["exact"], "integral")
+        elif record.get("value") not in (None, ""):
+            integral = _decimal(record["value"], record_digits(record))
+        if record.get("log_coefficient") not in (None, "", "0"):
+            log_coefficient = _constant(str(record["log_coefficient"]), False, record_digits(record))
+    return Row(entry, parse(entry.coefficient), laurent, integral, log_coefficient, source_text(entry))
 
 
 def source_text(entry) -> str:
@@ -116,21 +120,26 @@ def source_text(entry) -> str:
     return f"{entry.provenance.describe()}, {entry.status}"
 
 
-def _power(term, where: str) -> int:
+def _power(term) -> int:
     power = term.get("power") if isinstance(term, dict) else None
     if isinstance(power, bool) or not isinstance(power, int):
-        raise LedgerError(f"{where}: a Laurent term needs an integer power, got {power!r}")
+        raise LedgerError(f"a Laurent term needs an integer power, got {power!r}")
     return power
 
 
-def _constant(text, exact: bool, digits, where: str):
-    """Exact text -> sympy; a decimal -> its text rounded to the digits it claims (at most 12)."""
+def _constant(text, exact: bool, digits: int):
+    """Exact text (or text without a decimal point or exponent) -> sympy; else a decimal."""
     text = str(text)
     if exact or not any(mark in text for mark in ".eE"):
-        return parse_exact(text, f"{where}: value")
-    shown = min(int(digits or SHOWN_DIGITS), SHOWN_DIGITS)
+        return parse_exact(text, "value")
+    return _decimal(text, digits)
+
+
+def _decimal(text, digits: int) -> str:
+    """A decimal's text rounded to the digits it claims, at most 12."""
+    shown = min(digits, SHOWN_DIGITS)
     ctx = working_context(shown)
-    return ctx.nstr(parse_number(text, ctx, f"{where}: value"), shown)
+    return ctx.nstr(parse_number(str(text), ctx, "value"), shown)
 
 
 def laurent_line(terms, variable: str, constant, times: str, power) -> str:

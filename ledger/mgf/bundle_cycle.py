@@ -39,13 +39,14 @@ import mpmath
 
 from ledger.errors import LedgerError
 from ledger.mgf.approx import export
-from ledger.mgf.bundle_fourier import fourier_coefficients
+from ledger.mgf.bundle_fourier import fourier_coefficients, gauss_nodes
 from ledger.mgf.fourier_asymptotics import bundle_series, log_constant, multiply
 from ledger.mgf.jobs import Job, ensure_job
 from ledger.mgf.modular import to_fundamental_domain
 from ledger.mgf.values import Value
 
 GUARD_DIGITS = 12
+ABEL_PLANA_NODES = 24
 SPLIT_STEP = 12     # the second split, for the error estimate, is at Z + SPLIT_STEP
 
 
@@ -91,15 +92,19 @@ def cycle_value(bundles, tau, digits: int = 20, job: Job | None = None) -> Value
     for s in series[1:]:
         product = multiply(product, s, leading + degree)
     job.report(0.9, "cycle of bundles: sums beyond the split")
-    results = {}
-    for z in (split, outer):
-        tail, tail_error = _outside(product, tau, z, digits, ctx)
-        for level in (0, 1):
-            box = _box_sum(bundles, tables[level], points, tau, z, ctx)
-            results[(z, level)] = (box + tail, tail_error)
-    value, tail_error = results[(outer, 1)]
-    error = (abs(value - results[(outer, 0)][0]) + abs(value - results[(split, 1)][0])
-             + tail_error + results[(split, 1)][1] + ctx.mpf(10) ** (-digits - GUARD_DIGITS + 4))
+    evaluate = _product_evaluator(series, tau, outer * tau2 / (2 * ctx.pi), ctx)
+    tail, tail_error = _outside(product, evaluate, tau, outer, ctx)
+    # moving the split inwards to |zeta| = split: the annulus by the series instead of the box
+    annulus = ctx.zero
+    for m, n in points:
+        if _zeta_abs(m, n, tau, ctx) >= split:
+            term = ctx.re(evaluate(m * tau + n, m * ctx.conj(tau) + n))
+            annulus += term if (m, n) == (0, 0) else 2 * term
+    box = [_box_sum(bundles, tables[level], points, tau, outer, ctx) for level in (0, 1)]
+    inner_box = _box_sum(bundles, tables[1], points, tau, split, ctx)
+    value = box[1] + tail
+    error = (abs(box[1] - box[0]) + abs(box[1] - inner_box - annulus) + tail_error
+             + ctx.mpf(10) ** (-digits - GUARD_DIGITS + 4))
     job.report(1.0, "cycle of bundles: done")
     return Value(export(ctx.re(value)), export(error), digits)
 
@@ -151,7 +156,7 @@ def _box_sum(bundles, table, points, tau, z, ctx):
     return total
 
 
-def _outside(product, tau, z, digits, ctx):
+def _outside(product, evaluate, tau, z, ctx):
     """(sum over |zeta| >= z of the product series, error estimate of that computation)."""
     tau1, tau2 = tau.real, tau.imag
     radius = z * tau2 / (2 * ctx.pi)
@@ -159,57 +164,109 @@ def _outside(product, tau, z, digits, ctx):
     far = _far_rows(product, tau, far_start, ctx)
     rows = ctx.zero
     error = ctx.zero
-    evaluate = _series_evaluator(product, tau, ctx)
     for m in range(-far_start + 1, far_start):
         n = int(ctx.floor(-m * tau1)) + 1
         while _zeta_abs(m, n, tau, ctx) < z:
             n += 1
         tail, tail_error = _abel_plana(lambda t, m=m: evaluate(m * tau + t, m * ctx.conj(tau) + t),
-                                       n, ctx)
+                                       n, abs(m * tau + n), ctx)
         rows += tail
         error += tail_error
     return 2 * (far + rows), 2 * error
 
 
-def _series_evaluator(series, tau, ctx):
-    """f(P, Q) = sum c P^-a Q^-b Lambda^i, Lambda = log(4 pi^2/tau2^2) + log P + log Q (Horner in 1/P)."""
+def _product_evaluator(series_list, tau, scale, ctx):
+    """f(P, Q) = prod_b S_b(P, Q), S_b = sum c P^-a Q^-b Lambda^i with
+    Lambda = log(4 pi^2/tau2^2) + log P + log Q (P, Q independent, for analytic continuation).
+
+    Evaluated in fixed point (complex pairs of integers) with P and Q scaled by
+    ``scale`` (about their size), so that powers and coefficients stay moderate."""
+    bits = int(ctx.prec) + 16
+    one = 1 << bits
+    fixed = lambda x: int(ctx.nint(ctx.ldexp(x, bits)))  # noqa: E731
     constant = log_constant(tau, ctx)
-    grouped: dict = {}
-    for (a, b, i), c in series.items():
-        grouped.setdefault(i, {}).setdefault(b, {})[a] = c
-    plan = []
-    for i, by_b in grouped.items():
-        rows = []
-        for b, by_a in by_b.items():
-            top = max(by_a)
-            rows.append((b, [by_a.get(a, 0) for a in range(top + 1)]))
-        plan.append((i, rows))
+    scale = ctx.mpf(scale)
+    plans = []
+    for series in series_list:
+        groups: dict = {}
+        for (a, b, i), c in series.items():
+            c = ctx.mpc(c) * scale ** (-a - b)
+            groups.setdefault((b, i), []).append((a, fixed(c.real), fixed(c.imag)))
+        plans.append([(b, i, sorted(terms)) for (b, i), terms in groups.items()])
+    top_a = max(a for s in series_list for a, _, _ in s)
+    top_b = max(b for s in series_list for _, b, _ in s)
+    top_i = max(i for s in series_list for _, _, i in s)
+
+    def powers(zr, zi, count):
+        out = [(one, 0)]
+        for _ in range(count):
+            r, i = out[-1]
+            out.append(((r * zr - i * zi) >> bits, (r * zi + i * zr) >> bits))
+        return out
 
     def evaluate(p, q):
         lam = constant + ctx.log(p) + ctx.log(q)
-        ip, iq = 1 / p, 1 / q
-        total = 0
-        for i, rows in plan:
-            part = 0
-            for b, coefficients in rows:
-                acc = 0
-                for c in reversed(coefficients):
-                    acc = acc * ip + c
-                part += acc * iq ** b
-            total += part * lam ** i
-        return total
+        u, w = scale / p, scale / q
+        pu = powers(fixed(u.real), fixed(u.imag), top_a)
+        pw = powers(fixed(w.real), fixed(w.imag), top_b)
+        pl = powers(fixed(lam.real), fixed(lam.imag), top_i)
+        total = (one, 0)
+        for plan in plans:
+            sr = si = 0
+            for b, i, terms in plan:
+                gr = gi = 0
+                for a, cr, ci in terms:
+                    ur, ui = pu[a]
+                    gr += cr * ur - ci * ui
+                    gi += cr * ui + ci * ur
+                gr, gi = gr >> bits, gi >> bits
+                xr, xi = pw[b]
+                yr, yi = pl[i]
+                zr, zi = (xr * yr - xi * yi) >> bits, (xr * yi + xi * yr) >> bits
+                sr += gr * zr - gi * zi
+                si += gr * zi + gi * zr
+            sr, si = sr >> bits, si >> bits
+            tr, ti = total
+            total = ((tr * sr - ti * si) >> bits, (tr * si + ti * sr) >> bits)
+        return ctx.mpc(ctx.ldexp(total[0], -bits), ctx.ldexp(total[1], -bits))
 
     return evaluate
 
 
-def _abel_plana(g, start: int, ctx):
-    """sum_{n >= start} g(n) for g analytic and decaying in Re t >= start (Abel-Plana)."""
+def _abel_plana(g, start: int, length, ctx):
+    """(sum_{n >= start} g(n), error estimate) for g analytic and decaying like |t|^-4 or
+    faster in Re t >= start, by the Abel-Plana formula
+
+        sum = int_start^oo g + g(start)/2 + i int_0^oo (g(start+iy) - g(start-iy)) / (e^(2 pi y) - 1) dy.
+
+    The first integral by the trapezoid rule after t = start + length exp(pi/2 sinh v)
+    (it copes with the logarithms in g at infinity), steps 1/8 and 1/6 for the error;
+    the second by Gauss-Legendre panels on [0, 9] (the rest is below e^(-18 pi)),
+    two rule sizes for the error."""
     start = ctx.mpf(start)
-    integral, e1 = ctx.quad(g, [start, start + 8, ctx.inf], error=True)
-    correction, e2 = ctx.quad(lambda y: (g(start + 1j * y) - g(start - 1j * y)) / ctx.expm1(2 * ctx.pi * y),
-                              [0, 1, ctx.inf], error=True)
-    value = integral + g(start) / 2 + 1j * correction
-    return value, abs(e1) + abs(e2)
+    integrals = []
+    for step in (ctx.mpf(1) / 8, ctx.mpf(1) / 6):
+        total = ctx.zero
+        for k in range(int(-4.5 / step), int(3 / step) + 1):   # v in [-4.5, 3]
+            v = k * step
+            e = ctx.exp(ctx.pi / 2 * ctx.sinh(v))
+            total += g(start + length * e) * length * e * ctx.pi / 2 * ctx.cosh(v)
+        integrals.append(total * step)
+    fine, coarse = integrals
+    corrections = []
+    for nodes in (ABEL_PLANA_NODES, (2 * ABEL_PLANA_NODES) // 3):
+        xs, ws = gauss_nodes(nodes, ctx)
+        correction = ctx.zero
+        for low, high in ((0, 1), (1, 3), (3, 9)):
+            for x, w in zip(xs, ws):
+                y = low + (high - low) * x
+                correction += (high - low) * w * (g(start + 1j * y) - g(start - 1j * y)) \
+                    / ctx.expm1(2 * ctx.pi * y)
+        corrections.append(correction)
+    g0 = g(start)
+    value = fine + g0 / 2 + 1j * corrections[0]
+    error = abs(fine - coarse) + abs(corrections[0] - corrections[1]) + abs(g0) * ctx.exp(-18 * ctx.pi)
+    return value, error
 
 
 def _far_rows(series, tau, start: int, ctx):

@@ -199,6 +199,14 @@ def fourier_coefficients(bundles, tau, points, bits: int, max_zeta, level: int =
     return [acc.table(b, points, ctx) for b in range(len(bundles))]
 
 
+def gauss_nodes(n: int, ctx) -> tuple:
+    """(nodes, weights) of the n-point Gauss-Legendre rule on [0, 1] as mpf of ``ctx``."""
+    rule = gauss_legendre(n, ctx.prec + 10)
+    bits = rule.fixed.bits
+    convert = lambda v: ctx.ldexp(ctx.mpf(int(v)), -bits)  # noqa: E731
+    return [convert(x) for x in rule.nodes], [convert(w) for w in rule.weights]
+
+
 def _times_linear(poly, constant, slope, bits):
     out = [(constant * c) >> bits for c in poly] + [0]
     for k, c in enumerate(poly):
@@ -216,7 +224,7 @@ def _angular_panels(height, max_zeta, bits, level, ctx):
     for start, stop, distance, normal in edges:
         far = max(distance / ctx.cos(start - normal), distance / ctx.cos(stop - normal))
         phase = max_zeta * far * (stop - start)
-        nodes, weights = gauss_legendre(_panel_nodes(bits, level, phase), bits + 20)
+        nodes, weights = gauss_nodes(_panel_nodes(bits, level, phase), ctx)
         panels.append((start, stop, distance, normal, nodes, weights))
     return panels
 
@@ -228,8 +236,7 @@ def _radial_panels(max_zeta, bits, level, ctx):
     reach = ctx.mpf(3) / 4   # the longest ray: the corner of the strip
     while start < 1:
         stop = min(2 * start, ctx.one)
-        nodes, weights = gauss_legendre(_panel_nodes(bits, level, max_zeta * reach * (stop - start)),
-                                        bits + 20)
+        nodes, weights = gauss_nodes(_panel_nodes(bits, level, max_zeta * reach * (stop - start)), ctx)
         out.extend((start + (stop - start) * t, (stop - start) * w) for t, w in zip(nodes, weights))
         start = stop
     return out
@@ -246,8 +253,7 @@ def _upper_region(add_node, bundle_values, low, high, m_max, max_zeta, scale, bi
         stop = min(2 * start, high)
         if high - stop < start / 2:
             stop = high
-        nodes, weights = gauss_legendre(_panel_nodes(bits, level, max_zeta * (stop - start)),
-                                        bits + 20)
+        nodes, weights = gauss_nodes(_panel_nodes(bits, level, max_zeta * (stop - start)), ctx)
         for t, w in zip(nodes, weights):
             y = fp.from_number(start + (stop - start) * t)
             weight = fp.from_number(w * (stop - start) * scale / count)

@@ -88,13 +88,14 @@ def _as_tau(tau):
     if isinstance(tau, str):
         from ledger.expr.tau import parse_tau
         return parse_tau(tau)
-    try:
-        tau = mpmath.mpmathify(tau)
-    except (TypeError, ValueError) as exc:
-        raise LedgerError(f"tau must be a complex number, got {tau!r}") from exc
+    if not isinstance(tau, (mpmath.mpc, mpmath.mpf)):  # keep every bit of an mpmath number
+        try:
+            tau = mpmath.mpmathify(tau)
+        except (TypeError, ValueError) as exc:
+            raise LedgerError(f"tau must be a complex number, got {tau!r}") from exc
     if not mpmath.im(tau) > 0:
         raise LedgerError(f"tau must lie in the upper half plane (Im tau > 0), got {tau}")
-    return mpmath.mpc(tau) if not isinstance(tau, mpmath.mpc) else tau
+    return tau
 
 
 def _atoms(expr) -> set:
@@ -123,7 +124,7 @@ def _atom_values(atoms, tau, digits, cache, ctx, job, attempt) -> dict:
             part = job.part(index / len(atoms), (index + 1) / len(atoms))
             if family in GRAPH_FAMILY or (family == "Laplace" and not _has_theta(atom)):
                 if reduced is None:
-                    reduced = to_fundamental_domain(tau)
+                    reduced = export(to_fundamental_domain(ctx.convert(tau), ctx))
                 point = reduced
             else:
                 point = tau

@@ -34,10 +34,11 @@ class FixedPoint:
     def __init__(self, bits: int):
         self.bits = bits
         self.one = mpz(1) << bits
+        self.float_scale = 2.0 ** -bits
         # a packed slot holds a sum of products of two fixed-point numbers
         self.slot_bits = 2 * bits + 64
-        self._gmp = gmpy2.context(precision=bits + 24)
-        self.pi = self._gmp.const_pi()  # gmpy2 mpfr at the working precision
+        self.gmp = gmpy2.context(precision=bits + 24)
+        self.pi = self.gmp.const_pi()  # gmpy2 mpfr at the working precision
 
     # conversions -----------------------------------------------------------
     def from_number(self, x) -> mpz:
@@ -87,23 +88,23 @@ class FixedPoint:
         return values
 
     # elementary functions at a point --------------------------------------
-    def _to_gmp(self, v):
-        return self._gmp.div_2exp(mpz(v), self.bits)
+    def to_gmp(self, v):
+        return self.gmp.div_2exp(mpz(v), self.bits)
 
-    def _from_gmp(self, x) -> mpz:
+    def from_gmp(self, x) -> mpz:
         mantissa, exponent = x.as_mantissa_exp()
         shift = exponent + self.bits
         return mantissa << shift if shift >= 0 else mantissa >> -shift
 
     def exp(self, v) -> mpz:
-        return self._from_gmp(self._gmp.exp(self._to_gmp(v)))
+        return self.from_gmp(self.gmp.exp(self.to_gmp(v)))
 
     def cos_sin(self, v) -> tuple:
-        sin, cos = self._gmp.sin_cos(self._to_gmp(v))
-        return self._from_gmp(cos), self._from_gmp(sin)
+        sin, cos = self.gmp.sin_cos(self.to_gmp(v))
+        return self.from_gmp(cos), self.from_gmp(sin)
 
     def log(self, v) -> mpz:
-        return self._from_gmp(self._gmp.log(self._to_gmp(v)))
+        return self.from_gmp(self.gmp.log(self.to_gmp(v)))
 
     def sqrt(self, v) -> mpz:
         return gmpy2.isqrt(mpz(v) << self.bits)

@@ -79,8 +79,8 @@ def find_identity(target, basis, digits: int = 30, job: Optional[Job] = None,
 
     def value(expr, tau):
         if (expr, tau) not in cache:
-            cache[(expr, tau)] = values(expr, tau, digits + 10) if _has_function(expr) \
-                else _constant_value(expr, digits + 10)
+            cache[(expr, tau)] = values(expr, tau, digits + 5) if _has_function(expr) \
+                else _constant_value(expr, digits + 5)
         return cache[(expr, tau)]
 
     exprs = [target] + basis

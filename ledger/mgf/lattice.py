@@ -18,10 +18,10 @@ Near z = 0, G_a(z) = gamma_a |z|^(2a-2) log|z|^2 + R_a(z) with R_a real-analytic
 and gamma_a = (-1)^a (pi/tau2)^(a-1) / ((a-1)!)^2; :class:`EdgeKernels` returns
 the regular parts R_a in fixed point.
 
-* a = 1: Kronecker's second limit formula,
+* G_1 alone: Kronecker's second limit formula,
   G_1(z) = -log|theta_1(z)/eta|^2 + 2 pi (Im z)^2 / tau2, with the Gaussian
   theta series (a handful of terms).
-* a >= 2: Poisson resummation in n, then the sum over m (0 <= v <= 1),
+* otherwise: Poisson resummation in n, then the sum over m (0 <= v <= 1),
   with lambda = 4 pi tau2, x0 = exp(2 pi i z), q = exp(2 pi i tau):
 
       G_a(z) = (-1)^(a+1) lambda^a B_2a(v) / (2a)!
@@ -58,8 +58,8 @@ WORST_POWER_RATIO = 0.5   # the power series in x0 is used only below this ratio
 
 
 def polylog_orders(weights) -> tuple:
-    """The orders s of Li_s that G_a (a >= 2) needs: a <= s <= 2a-1."""
-    return tuple(sorted({s for a in weights if a >= 2 for s in range(a, 2 * a)}))
+    """The orders s of Li_s that G_a needs: a <= s <= 2a-1."""
+    return tuple(sorted({s for a in weights for s in range(a, 2 * a)}))
 
 
 def log_coefficient(a: int, tau2, ctx):
@@ -86,10 +86,8 @@ class EdgeKernels:
         tau = ctx.mpc(tau)
         if not tau.imag > 0:
             raise LedgerError("tau must lie in the upper half plane")
-        self._ctx = ctx
+        self.tau = tau
         self.tau2 = tau.imag
-        self._inverse_tau2 = fp.from_number(1 / tau.imag)
-        self._pi_over_tau2 = fp.from_number(ctx.pi / tau.imag)
         self._gamma = [fp.from_number(log_coefficient(a, tau.imag, ctx)) for a in self.weights]
         if self.weights == (1,):
             self._scalar, self._series = _ScalarGreen(tau, fp, ctx), None
@@ -100,11 +98,11 @@ class EdgeKernels:
         """[R_a(z) for a in weights] in fixed point; r2 = |z|^2 (> 0); log_r2 =
         log|z|^2 is computed when needed and not given."""
         fp = self.fp
-        g = fp._gmp
-        pi_x = g.mul(fp._to_gmp(x), fp.pi)
+        g = fp.gmp
+        pi_x = g.mul(fp.to_gmp(x), fp.pi)
         sin, cos = g.sin_cos(pi_x)
-        growth = g.expm1(g.mul(fp._to_gmp(y), fp.pi))  # e^(pi y) - 1
-        point = _Point(x, y, fp._from_gmp(cos), fp._from_gmp(sin), sin, growth)
+        growth = g.expm1(g.mul(fp.to_gmp(y), fp.pi))  # e^(pi y) - 1
+        point = _Point(x, y, fp.from_gmp(cos), fp.from_gmp(sin), growth)
         if self._scalar is not None:
             return [self._scalar.regular_part(point, fp, g, r2)]
         if log_r2 is None and self._series.needs_log(point):
@@ -134,14 +132,12 @@ class EdgeKernels:
 
 
 class _Point:
-    """Per-point data: x, y, cos(pi x), sin(pi x) (fixed point), and as gmpy2
-    floats sin(pi x) and e^(pi y) - 1."""
+    """Per-point data: x, y, cos(pi x), sin(pi x) (fixed point), e^(pi y) - 1 (gmpy2)."""
 
-    __slots__ = ("x", "y", "cos", "sin", "sin_float", "growth")
+    __slots__ = ("x", "y", "cos", "sin", "growth")
 
-    def __init__(self, x, y, cos, sin, sin_float, growth):
-        self.x, self.y, self.cos, self.sin = x, y, cos, sin
-        self.sin_float, self.growth = sin_float, growth
+    def __init__(self, x, y, cos, sin, growth):
+        self.x, self.y, self.cos, self.sin, self.growth = x, y, cos, sin, growth
 
 
 class _ScalarGreen:
@@ -169,16 +165,16 @@ class _ScalarGreen:
         eta = ctx.expjpi(tau / 12) * ctx.qp(ctx.expjpi(2 * tau))
         self._log_eta2 = fp.from_number(ctx.log(abs(eta) ** 2))
         self._two_pi_over_tau2 = fp.from_number(2 * ctx.pi / tau2)
-        self._exp_half_height = fp._to_gmp(fp.from_number(ctx.exp(-self._half_height)))
+        self._exp_half_height = fp.to_gmp(fp.from_number(ctx.exp(-self._half_height)))
 
     def regular_part(self, point, fp, g, r2):
         bits = fp.bits
         growth = point.growth
         up = g.add(growth, 1)                             # e^(pi y)
-        sinh = fp._from_gmp(g.div(g.mul(growth, g.add(growth, 2)), g.mul(up, 2)))
-        cosh = fp._from_gmp(g.div(g.add(g.mul(up, up), 1), g.mul(up, 2)))
-        down = fp._from_gmp(g.div(1, up))                 # e^(-pi y)
-        scaled = fp._from_gmp(g.mul(up, self._exp_half_height))  # e^(pi y - pi tau2/2)
+        sinh = fp.from_gmp(g.div(g.mul(growth, g.add(growth, 2)), g.mul(up, 2)))
+        cosh = fp.from_gmp(g.div(g.add(g.mul(up, up), 1), g.mul(up, 2)))
+        down = fp.from_gmp(g.div(1, up))                 # e^(-pi y)
+        scaled = fp.from_gmp(g.mul(up, self._exp_half_height))  # e^(pi y - pi tau2/2)
         c, s = point.cos, point.sin
         # n = 0: 2 Q_0 sin(pi z), sin(pi z) = sin(pi x) cosh(pi y) + i cos(pi x) sinh(pi y)
         sr, si = (s * cosh) >> bits, (c * sinh) >> bits
@@ -211,8 +207,6 @@ class _ScalarGreen:
 class _PolylogGreen:
     """R_a(z) from the polylogarithm form (see the module docstring).
 
-    For a = 1 the Li_1(x0) term is the closed form -log|1 - x0|^2.
-
     The sum splits into Li(x0) (series chosen per point), Li(y0) with
     y0 = q/x0 (power series, |y0| <= |q|^(1/2)), both with real coefficients
     (Re x0^m and Re y0^m follow a real three-term recurrence), and the images
@@ -240,10 +234,14 @@ class _PolylogGreen:
             self._gamma_log2pi.append(fp.from_number(2 * gamma * ctx.log(2 * ctx.pi)))
         self._slots = [(a, l) for a in weights for l in range(a)]
         self._kappa_fixed = [[fp.from_number(k) for k in row] for row in self._kappa]
+        self._target = (fp.bits + SERIES_MARGIN_BITS) * math.log(2)
+        self._abs_q_float = math.exp(-self._log_abs_q)
+        self._tables = {method: taylor_table(self.orders, fp.bits, method == AROUND_HALF)
+                        for method in (AROUND_ZERO, AROUND_HALF)} if self.orders else {}
         self._build_tables(tau, fp, ctx)
         phase = ctx.expjpi(2 * tau.real)
         self._phase = (fp.from_number(phase.real), fp.from_number(phase.imag))
-        self._gmp_abs_q = fp._to_gmp(fp.from_number(ctx.exp(-2 * ctx.pi * tau2)))
+        self.gmp_abs_q = fp.to_gmp(fp.from_number(ctx.exp(-2 * ctx.pi * tau2)))
 
     def _build_tables(self, tau, fp, ctx):
         target = (fp.bits + 30) * math.log(2)
@@ -252,8 +250,7 @@ class _PolylogGreen:
         # Li(x0) and Li(y0): real coefficients of Re x0^m v^l and Re y0^m v^l
         direct_count = int(target / -math.log(WORST_POWER_RATIO)) + 2
         self._x0_direct = [fp.pack([fp.from_number(kappa[a][l] / ctx.mpf(m) ** (2 * a - 1 - l))
-                                    if a >= 2 else 0 for a, l in self._slots])
-                           for m in range(1, direct_count + 1)]
+                                    for a, l in self._slots]) for m in range(1, direct_count + 1)]
         y0_count = int(target / (0.5 * self._log_abs_q)) + 2
         self._y0_direct = [fp.pack([fp.from_number(sum(
             (-1) ** l * math.comb(j, l) * kappa[a][j] / ctx.mpf(m) ** (2 * a - 1 - j)
@@ -282,35 +279,40 @@ class _PolylogGreen:
                 fp.pack([fp.from_number(z.imag) for z in row]))
 
     @staticmethod
-    def _ratios(point, fp):
-        xf, yf = fp.to_float(point.x), fp.to_float(point.y)
-        return {AROUND_ZERO: math.hypot(xf, yf),
-                AROUND_HALF: 2 * math.hypot(abs(xf) - 0.5, yf),
-                POWER_SERIES: max(math.exp(-2 * math.pi * yf), WORST_POWER_RATIO)}
+    def _choose(point, fp) -> tuple:
+        """(method, ratio): the expansion of Li(x0) with the smallest convergence ratio."""
+        scale = fp.float_scale
+        xf, yf = abs(float(point.x)) * scale, float(point.y) * scale
+        best, ratio = AROUND_ZERO, math.hypot(xf, yf)
+        half = 2 * math.hypot(xf - 0.5, yf)
+        if half < ratio:
+            best, ratio = AROUND_HALF, half
+        power = max(math.exp(-2 * math.pi * yf), WORST_POWER_RATIO)
+        if power < ratio:
+            best, ratio = POWER_SERIES, power
+        return best, ratio
 
     def needs_log(self, point) -> bool:
-        ratios = self._ratios(point, self._fp)
-        return min(ratios, key=ratios.get) != AROUND_ZERO
+        return self._choose(point, self._fp)[0] != AROUND_ZERO
 
     def regular_parts(self, point, fp, g, r2, log_r2) -> list:
         bits = fp.bits
         one = fp.one
         x, y = point.x, point.y
-        ratios = self._ratios(point, fp)
-        method = min(ratios, key=ratios.get)
-        target = (bits + SERIES_MARGIN_BITS) * math.log(2)
+        method, ratio = self._choose(point, fp)
+        target = self._target
         # x0 = e^(2 pi i z), y0 = q / x0 = |q| e^(2 pi y) e^(2 pi i (tau1 - x))
         up = g.add(point.growth, 1)
         c, s = point.cos, point.sin
         cos2, sin2 = ((c * c - s * s) >> bits), ((2 * c * s) >> bits)
-        x_size = fp._from_gmp(g.div(1, g.mul(up, up)))
+        x_size = fp.from_gmp(g.div(1, g.mul(up, up)))
         xr, xi = (x_size * cos2) >> bits, (x_size * sin2) >> bits
-        y_size = fp._from_gmp(g.mul(g.mul(up, up), self._gmp_abs_q))
+        y_size = fp.from_gmp(g.mul(g.mul(up, up), self.gmp_abs_q))
         pr_, pi_ = self._phase
         yr = (y_size * ((pr_ * cos2 + pi_ * sin2) >> bits)) >> bits
         yi = (y_size * ((pi_ * cos2 - pr_ * sin2) >> bits)) >> bits
-        x_ratio, y_ratio = fp.to_float(x_size), fp.to_float(y_size)
-        abs_q = math.exp(-self._log_abs_q)
+        x_ratio, y_ratio = float(x_size) * fp.float_scale, float(y_size) * fp.float_scale
+        abs_q = self._abs_q_float
         acc = _real_power_sum(self._y0_direct, yr, (y_size * y_size) >> bits,
                               _terms(target, y_ratio), bits)
         if method == POWER_SERIES:
@@ -318,21 +320,13 @@ class _PolylogGreen:
                                    _terms(target, x_ratio), bits)
         acc += _complex_power_sum(self._x0_images, xr, xi, _terms(target, abs_q * x_ratio), bits)
         acc += _complex_power_sum(self._y0_images, yr, yi, _terms(target, abs_q * y_ratio), bits)
-        if self.weights[0] == 1:
-            # -log(|1 - x0|^2 / |z|^2), |1 - x0|^2 = ((u^2 - 1)^2 + 4 u^2 sin^2(pi x)) / u^4
-            growth, sin_f = point.growth, point.sin_float
-            span = g.mul(growth, g.add(growth, 2))                  # u^2 - 1
-            up2 = g.mul(up, up)
-            numerator = g.add(g.mul(span, span), g.mul(g.mul(up2, 4), g.mul(sin_f, sin_f)))
-            exact_r2 = g.div_2exp(mpz(x * x + y * y), 2 * bits)
-            scalar_log = fp._from_gmp(g.log(g.div(numerator, g.mul(g.mul(up2, up2), exact_r2))))
         slot_values = fp.unpack(acc, len(self._slots))
         v = (y * self._inverse_tau2) >> bits
         v_powers = [one]
         for _ in range(max(self.weights)):
             v_powers.append((v_powers[-1] * v) >> bits)
         if method != POWER_SERIES:
-            singular = self._singular_term(method, x, y, ratios[method], target, fp)
+            singular = self._singular_term(method, x, y, ratio, target, fp)
         out = []
         index = 0
         r2_power, exponent = one, 0
@@ -341,9 +335,6 @@ class _PolylogGreen:
             for l in range(a):
                 value += (slot_values[index] * v_powers[l]) >> bits
                 index += 1
-            if a == 1:
-                out.append(value - scalar_log)
-                continue
             if method != POWER_SERIES:
                 kappa = self._kappa_fixed[k]
                 for j in range(a):
@@ -368,23 +359,22 @@ class _PolylogGreen:
         else:
             shift = fp.one >> 1
             tr, ti = -2 * y, 2 * (x - shift if x >= 0 else x + shift)   # t = 2 i (z -+ 1/2)
-        table = taylor_table(self.orders, bits, method == AROUND_HALF)
-        count = min(_terms(target, ratio), len(table))
-        acc = (table[0] << bits) + _real_power_sum(table[1:], tr, (tr * tr + ti * ti) >> bits,
-                                                   count - 1, bits)
+        table = self._tables[method]
+        acc = (table[0] << bits) + _real_power_sum(table, tr, (tr * tr + ti * ti) >> bits,
+                                                   _terms(target, ratio) - 1, bits, offset=1)
         return fp.unpack(acc, len(self.orders))
 
 
-def _real_power_sum(table, re, norm, count, bits):
-    """sum_{m=1..count} table[m-1] * Re(w^m) (unshifted), from Re w and |w|^2:
+def _real_power_sum(table, re, norm, count, bits, offset=0):
+    """sum_{m=1..count} table[offset+m-1] * Re(w^m) (unshifted), from Re w and |w|^2:
     Re w^(m+1) = 2 Re w Re w^m - |w|^2 Re w^(m-1)."""
-    count = min(count, len(table))
+    count = min(count, len(table) - offset)
     if count <= 0:
         return 0
     twice_re = 2 * re
-    acc = table[0] * re
+    acc = table[offset] * re
     previous, current = mpz(1) << bits, re
-    for coefficient in islice(table, 1, count):
+    for coefficient in islice(table, offset + 1, offset + count):
         previous, current = current, (twice_re * current - norm * previous) >> bits
         acc += coefficient * current
     return acc

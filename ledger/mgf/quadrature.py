@@ -2,58 +2,44 @@
 
 The radial rule integrates s log^k(s) p(s) over [0, 1] exactly for every
 polynomial p of degree < n and every k <= kmax (product integration on the
-Gauss-Legendre nodes: the weights come from exact modified moments of the
-shifted Legendre polynomials), so an integrand sum_k log^k(s) A_k(s) with
-A_k analytic converges geometrically, like Gauss-Legendre for A_k alone.
+Gauss-Legendre nodes, with weights from the modified moments of the shifted
+Legendre polynomials), so an integrand sum_k log^k(s) A_k(s) with A_k analytic
+converges geometrically, at the rate of polynomial interpolation of A_k.
 
->>> import mpmath
->>> nodes, weights = gauss_legendre(5, 60)
->>> ctx = mpmath.MPContext(); ctx.prec = 60
->>> float(sum(w * x**4 for x, w in zip(nodes, weights)))  # int_0^1 x^4 = 1/5
-0.2
->>> rule = radial_rule(12, 2, 100)
+Nodes come from Newton's method started at float accuracy; everything is
+computed in fixed point with guard bits (fast enough to build on first use).
+
+>>> from ledger.mgf.fixedpoint import FixedPoint
+>>> rule = gauss_legendre(5, 60)
 >>> fp = rule.fixed
->>> total = sum(w * n for w, n in zip(rule.weights[1], rule.nodes)) >> 100  # int s log(s) s ds
->>> round(fp.to_float(total), 12) == round(-1 / 9, 12)
+>>> total = sum(w * (x ** 4 >> 180) for x, w in zip(rule.nodes, rule.weights)) >> 60
+>>> round(fp.to_float(total), 12)                     # int_0^1 x^4 dx = 1/5
+0.2
+>>> radial = radial_rule(12, 2, 100)
+>>> total = sum(w * s for w, s in zip(radial.weights[1], radial.nodes)) >> 100
+>>> round(radial.fixed.to_float(total), 12) == round(-1 / 9, 12)   # int s log(s) s ds
 True
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
-from fractions import Fraction
 from functools import lru_cache
 from math import comb
 
-import mpmath
+from ledger.mgf.fixedpoint import FixedPoint, mpz
 
-from ledger.mgf.fixedpoint import FixedPoint
+GUARD_BITS = 24
 
 
-@lru_cache(maxsize=64)
-def gauss_legendre(n: int, prec: int) -> tuple:
-    """Nodes and weights of the n-point Gauss-Legendre rule on [0, 1] (mpf, ``prec`` bits)."""
-    ctx = mpmath.MPContext()
-    ctx.prec = prec + 20
-    nodes, weights = [], []
-    for i in range(1, n + 1):
-        x = ctx.cos(ctx.pi * (i - ctx.mpf(1) / 4) / (n + ctx.mpf(1) / 2))
-        for _ in range(100):
-            p0, p1 = ctx.one, x
-            for k in range(2, n + 1):
-                p0, p1 = p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k
-            derivative = n * (x * p1 - p0) / (x * x - 1)
-            step = p1 / derivative
-            x -= step
-            if abs(step) < ctx.mpf(2) ** (-prec - 10):
-                break
-        p0, p1 = ctx.one, x
-        for k in range(2, n + 1):
-            p0, p1 = p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k
-        derivative = n * (x * p1 - p0) / (x * x - 1)
-        nodes.append((1 - x) / 2)
-        weights.append(1 / ((1 - x * x) * derivative ** 2))
-    return tuple(nodes), tuple(weights)
+@dataclass(frozen=True)
+class GaussRule:
+    """n-point Gauss-Legendre rule on [0, 1]: nodes and weights in fixed point."""
+
+    fixed: FixedPoint
+    nodes: tuple
+    weights: tuple
 
 
 @dataclass(frozen=True)
@@ -66,51 +52,95 @@ class RadialRule:
     weights: tuple  # weights[k][i]
 
 
+def _legendre(n: int, x, bits: int) -> tuple:
+    """(P_n(x), P_(n-1)(x)) in fixed point by the three-term recurrence."""
+    one = mpz(1) << bits
+    p0, p1 = one, x
+    for k in range(2, n + 1):
+        p0, p1 = p1, (((2 * k - 1) * x * p1 >> bits) - (k - 1) * p0) // k
+    return p1, p0
+
+
+def _legendre_all(n: int, x, bits: int) -> list:
+    """[P_0(x), ..., P_(n-1)(x)] in fixed point."""
+    values = [mpz(1) << bits, x]
+    for k in range(2, n):
+        values.append((((2 * k - 1) * x * values[-1] >> bits) - (k - 1) * values[-2]) // k)
+    return values[:n]
+
+
+def _float_root(n: int, i: int) -> float:
+    """The i-th largest root of P_n in float64 (Tricomi's guess, then Newton)."""
+    x = math.cos(math.pi * (i - 0.25) / (n + 0.5))
+    for _ in range(100):
+        p0, p1 = 1.0, x
+        for k in range(2, n + 1):
+            p0, p1 = p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k
+        step = p1 / (n * (x * p1 - p0) / (x * x - 1))
+        x -= step
+        if abs(step) < 1e-15:
+            break
+    return x
+
+
+@lru_cache(maxsize=256)
+def gauss_legendre(n: int, bits: int) -> GaussRule:
+    """The n-point Gauss-Legendre rule on [0, 1] at ``bits`` fractional bits."""
+    work = bits + GUARD_BITS
+    one = mpz(1) << work
+    nodes, weights = [], []
+    for i in range(1, n + 1):
+        x = mpz(round(_float_root(n, i) * 2.0 ** 60)) << (work - 60)
+        while True:
+            p, q = _legendre(n, x, work)
+            derivative = (n * ((x * p >> work) - q) << work) // ((x * x >> work) - one)
+            step = (p << work) // derivative
+            x -= step
+            if abs(step) < (1 << (GUARD_BITS // 2)):
+                break
+        p, q = _legendre(n, x, work)
+        derivative = (n * ((x * p >> work) - q) << work) // ((x * x >> work) - one)
+        # on [0, 1]: node (1 - x)/2, weight 1/((1 - x^2) P_n'(x)^2)
+        nodes.append((one - x) >> (GUARD_BITS + 1))
+        denominator = ((one - (x * x >> work)) * (derivative * derivative >> work)) >> work
+        weights.append(((one << work) // denominator) >> GUARD_BITS)
+    return GaussRule(FixedPoint(bits), tuple(nodes), tuple(weights))
+
+
 @lru_cache(maxsize=None)
-def _legendre_log_moments(n: int, kmax: int) -> tuple:
-    """mu[k][j] = int_0^1 s log^k(s) P_j(2s-1) ds, exactly."""
+def _log_moment_numerators(n: int, kmax: int, extra: int) -> tuple:
+    """mu[k][j] = int_0^1 s log^k(s) P_j(2s-1) ds in fixed point with ``extra`` bits,
+    from P_j(2s-1) = sum_l (-1)^(j+l) C(j,l) C(j+l,l) s^l and
+    int_0^1 s^(l+1) log^k(s) ds = (-1)^k k! / (l+2)^(k+1)."""
     moments = []
     for k in range(kmax + 1):
-        sign_fact = (-1) ** k * _factorial(k)
+        scale = (-1) ** k * math.factorial(k)
+        powers = [(mpz(scale) << extra) // (l + 2) ** (k + 1) for l in range(n)]
         row = []
         for j in range(n):
-            total = Fraction(0)
-            for l in range(j + 1):
-                coefficient = (-1) ** (j + l) * comb(j, l) * comb(j + l, l)
-                total += Fraction(coefficient, (l + 2) ** (k + 1))
-            row.append(sign_fact * total)
+            row.append(sum((-1) ** (j + l) * comb(j, l) * comb(j + l, l) * powers[l]
+                           for l in range(j + 1)))
         moments.append(tuple(row))
     return tuple(moments)
 
 
-def _factorial(k: int) -> int:
-    out = 1
-    for i in range(2, k + 1):
-        out *= i
-    return out
-
-
-@lru_cache(maxsize=64)
+@lru_cache(maxsize=256)
 def radial_rule(n: int, kmax: int, bits: int) -> RadialRule:
     """The n-node product rule for s log^k(s) on [0, 1], k = 0..kmax."""
     fp = FixedPoint(bits)
-    nodes, gl_weights = gauss_legendre(n, bits + 20)
-    ctx = mpmath.MPContext()
-    ctx.prec = bits + 40
-    moments = _legendre_log_moments(n, kmax)
+    work = bits + GUARD_BITS
+    # the alternating sums for the moments lose about 2n bits to cancellation
+    extra = work + 2 * n + 16
+    moments = _log_moment_numerators(n, kmax, extra)
+    gauss = gauss_legendre(n, work)
+    one = mpz(1) << work
     weights = [[] for _ in range(kmax + 1)]
-    for s, w in zip(nodes, gl_weights):
-        x = 2 * ctx.mpf(s) - 1
-        legendre = [ctx.one, x]
-        for j in range(2, n):
-            legendre.append(((2 * j - 1) * x * legendre[-1] - (j - 1) * legendre[-2]) / j)
+    for s, w in zip(gauss.nodes, gauss.weights):
+        legendre = _legendre_all(n, 2 * s - one, work)
         for k in range(kmax + 1):
-            total = ctx.fsum((2 * j + 1) * legendre[j] * ctx.mpf(moments[k][j].numerator)
-                             / moments[k][j].denominator for j in range(n))
-            weights[k].append(fp.from_number(w * total))
-    return RadialRule(
-        fp,
-        tuple(fp.from_number(s) for s in nodes),
-        tuple(fp.from_number(ctx.log(s)) for s in nodes),
-        tuple(tuple(row) for row in weights),
-    )
+            total = sum((2 * j + 1) * legendre[j] * moments[k][j] for j in range(n)) >> extra
+            weights[k].append((w * total) >> (work + GUARD_BITS))
+    nodes = tuple(s >> GUARD_BITS for s in gauss.nodes)
+    gfp = FixedPoint(work)
+    log_nodes = tuple(gfp.log(s) >> GUARD_BITS for s in gauss.nodes)
+    return RadialRule(fp, nodes, log_nodes, tuple(tuple(row) for row in weights))

@@ -159,6 +159,9 @@ class LedgerApp(App):
         self.tasks.cancel_all()
         self.exit(0)
 
+    def on_unmount(self) -> None:
+        self.tasks.cancel_all()  # however the app ends, running computations unwind
+
     def action_reload(self) -> None:
         from ledger.tui.dialogs.choice import ChoiceDialog
 
@@ -243,20 +246,23 @@ class LedgerApp(App):
                          key=lambda c: order.index(c[0]) if c[0] in order else len(order))
         self.push_screen(ExpandDialog(choices), self._merge_expansion)
 
-    def _merge_expansion(self, payload) -> None:
-        from ledger.tui.project_edits import merge_expansion
+    def _merge_expansion(self, plan) -> None:
+        from ledger.book.fill import apply_merge
 
-        if not payload:
+        if not plan:
             return
         try:
-            report = merge_expansion(self.project, payload)
+            report = apply_merge(self.project, plan)
         except LedgerError as error:
             self.show_error("Expansion not added", str(error))
             return
         self.project_changed()
-        message = f"added {len(report['added'])} entries, {len(report['unchanged'])} already present"
+        message = (f"added {len(report['added'])} entries, derived data for {len(report['updated'])}, "
+                   f"{len(report['unchanged'])} already present")
+        if report["verified"]:
+            message += f"; cited and confirmed: {', '.join(report['verified'])}"
         if report["differing"]:
-            message += f"; present with a different coefficient (untouched): {', '.join(report['differing'])}"
+            message += f"; different coefficient (marked conflict): {', '.join(report['differing'])}"
         self.notify(message, title="Expansion", timeout=10)
 
     def delete_entry(self, entry_id: str) -> None:

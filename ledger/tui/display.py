@@ -42,6 +42,16 @@ def structure_unicode(label: str) -> str:
     return _POWER.sub(lambda m: superscript(m.group(1)), text).replace(" ", "")
 
 
+def operator_with_structure(operator: str, structure: str) -> str:
+    """'D⁶R⁴ σ₃' ('R⁴' alone for the structure 1).
+
+    >>> operator_with_structure("D^12R^4", "sigma2^3"), operator_with_structure("R^4", "1")
+    ('D¹²R⁴ σ₂³', 'R⁴')
+    """
+    shown = structure_unicode(structure)
+    return operator_unicode(operator) if shown == "1" else f"{operator_unicode(operator)} {shown}"
+
+
 def alpha_unicode(order: int) -> str:
     return "α'" + superscript(order)
 
@@ -68,6 +78,8 @@ def sympy_unicode(text: str) -> str:
     'ζ(3)/3 + π²/6'
     >>> sympy_unicode("-zeta(3)**2/4")
     '−ζ(3)²/4'
+    >>> sympy_unicode("pi*log(2)*zeta(3)/45")
+    'π log(2)ζ(3)/45'
     """
     try:
         value = sympy.sympify(text)
@@ -77,12 +89,15 @@ def sympy_unicode(text: str) -> str:
 
 
 def _unicode_sstr(text: str) -> str:
+    text = re.sub(r"\bzeta_prime\(", "ζ′(", text)
+    text = re.sub(r"\bzeta_sv\(", "ζsv(", text)
     text = re.sub(r"\bzeta\(", "ζ(", text)
     text = re.sub(r"\bpi\b", "π", text)
     text = re.sub(r"\bEulerGamma\b", "γ", text)
     text = re.sub(r"\bsqrt\(", "√(", text)
     text = re.sub(r"\*\*(?:\((-\d+)\)|(\d+))", lambda m: superscript(m.group(1) or m.group(2)), text)
     text = re.sub(r"(?<=\d)\*(?=\d)", "·", text)
+    text = re.sub(r"\*(?=log\()", " ", text)
     return text.replace("*", "").replace("-", "−")
 
 

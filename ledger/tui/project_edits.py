@@ -26,14 +26,12 @@ def same_expression(a: str, b: str) -> bool:
     >>> same_expression("1/3*C(1,1,1) + 4/3*E(3)", "5/3*E(3) + zeta(3)/3")
     True
     """
-    from ledger.amplitudes.identities import apply_identities
-    from ledger.expr import parse
+    from ledger.book.fill import same_coefficient
 
     try:
-        difference = parse(a) - parse(b)
+        return same_coefficient(a, b)
     except LedgerError:
         return a.strip() == b.strip()
-    return difference == 0 or apply_identities(difference) == 0
 
 
 def attach_results(project: Project, entry, results: dict, coefficient: str | None = None) -> None:
@@ -133,52 +131,3 @@ def set_convention(project: Project, name: str, value: str) -> None:
     if project.conventions.get(name) != value:
         project.conventions[name] = value
         project.dirty = True
-
-
-def merge_expansion(project: Project, payload: dict) -> dict:
-    """Add the coefficients of an ``expand`` payload as computed entries (existing ones untouched).
-
-    Uses the command line's own merge when it offers one for an in-memory project.
-    """
-    from ledger.commands import expand_cmd
-
-    if hasattr(expand_cmd, "merge_into"):
-        return expand_cmd.merge_into(project, payload)
-    return _merge_expansion_here(project, payload)
-
-
-def _merge_expansion_here(project: Project, payload: dict) -> dict:
-    # Mirrors expand_cmd.add_to_project for a project held in memory (that one loads and saves
-    # a file); to be replaced by expand_cmd.merge_into once the command offers it.
-    from ledger import ENGINE_VERSION
-    from ledger.amplitudes.backgrounds import get_background
-    from ledger.book import Background, Provenance, default_conventions
-    from ledger.errors import ConventionError
-
-    engine = default_conventions()
-    differing = [k for k in ("mandelstam", "graph_normalisation", "green_function", "amplitude_factor")
-                 if project.conventions.get(k) != engine[k]]
-    if differing:
-        raise ConventionError(
-            "this project declares " + ", ".join(f"{k}={project.conventions[k]}" for k in differing)
-            + "; the expansion is in the engine's conventions, so no entries were added")
-    background = get_background(payload["background"])
-    if project.background(background.id) is None:
-        project.add_background(Background(background.id, background.name, background.theory,
-                                          background.dimension, background.compactification))
-    level = "tree level" if payload["genus"] == 0 else (
-        "genus one, " + ("after known identities" if payload.get("reduced") else "raw graph form"))
-    added, unchanged, differing_ids = [], [], []
-    for row in payload["coefficients"]:
-        existing = project.find(background.id, payload["genus"], row["operator"], (row["p"], row["q"]))
-        if existing is not None:
-            (unchanged if same_expression(existing.coefficient, row["expr"]) else differing_ids).append(
-                existing.id)
-            continue
-        entry = project.add_entry(background=background.id, genus=payload["genus"],
-                                  operator=row["operator"], structure=row["structure"],
-                                  coefficient=row["expr"], notes=f"expansion, {level}",
-                                  provenance=Provenance("computed", ENGINE_VERSION))
-        added.append(entry.id)
-    return {"path": str(project.path or ""), "added": added, "unchanged": unchanged,
-            "differing": differing_ids}

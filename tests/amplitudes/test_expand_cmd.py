@@ -112,9 +112,12 @@ def test_into_project_reports_a_differing_entry_and_leaves_it(tmp_path, capsys):
     code = main(["expand", "--order", "3", "--into", str(target), "--json"])
     payload = json.loads(capsys.readouterr().out)
     assert code == 1 and len(payload["project"]["differing"]) == 1
-    # the raw B_(0,1) equals the stored reduced form once the identities are applied
-    assert len(payload["project"]["unchanged"]) == 2
+    # the raw B_(0,1) equals the stored reduced form once the identities are applied:
+    # the cited D^6R^4 entry is confirmed, the computed R^4 entry gains derived data
+    report = payload["project"]
+    assert len(report["verified"]) == 1 and len(report["unchanged"] + report["updated"]) == 1
     from ledger.book import Project
 
-    assert [e.coefficient for e in Project.load(target).entries
-            if e.operator == "D^4R^4"] == ["2*E(2)"]
+    differing = [e for e in Project.load(target).entries if e.operator == "D^4R^4"]
+    assert [e.coefficient for e in differing] == ["2*E(2)"]
+    assert differing[0].status == "conflict"  # marked, never silently changed

@@ -6,10 +6,12 @@ import json
 from pathlib import Path
 
 import pytest
+import sympy
 
 from ledger.book import Project
 from ledger.book.transform import convert_project
 from ledger.cli import main
+from ledger.expr import parse
 
 PROJECTS = Path(__file__).resolve().parents[2] / "projects"
 HALVORSEN = PROJECTS / "iib-flat-halvorsen.toml"
@@ -69,8 +71,52 @@ def test_bad_input_exits_2_with_one_line(engine_project, tmp_path, capsys, make_
     assert message in err and err.count("\n") == 1
 
 
-@pytest.mark.skipif(not OSTRANDER.exists(), reason="the second example project is not in projects/")
 def test_the_two_example_projects_are_equal_after_alignment(capsys):
     assert Project.load(HALVORSEN).conventions != Project.load(OSTRANDER).conventions
     assert main(["diff", str(HALVORSEN), str(OSTRANDER)]) == 0
     assert main(["diff", str(OSTRANDER), str(HALVORSEN)]) == 0
+
+
+def test_an_altered_copy_of_the_example_diffs_with_factor_and_cause(tmp_path, capsys):
+    altered = Project.load(OSTRANDER)
+    altered.conventions["mandelstam"] = "alpha'/4"  # the declaration only; the data stay in alpha'/2
+    path = _save(altered, tmp_path / "altered.toml")
+    assert main(["diff", str(HALVORSEN), path, "--json"]) == 1
+    payload = json.loads(capsys.readouterr().out)
+    factors = {e["operator"]: e["factor"] for e in payload["entries"]}
+    # derived: data with s' = 2s read as s' = s are 2^-w too small: first = 2^w x second
+    assert factors == {"R^4": None, "D^4R^4": "4", "D^6R^4": "8"}
+    assert payload["cause"]["key"] == "mandelstam" and payload["cause"]["reading"] == "alpha'/2"
+
+
+def test_the_second_example_project_checked_by_hand():
+    pi, zeta = sympy.pi, sympy.zeta
+    project = Project.load(OSTRANDER)
+    assert project.conventions["mandelstam"] == "alpha'/2" and project.conventions["laurent_variable"] == "tau2"
+    d4 = project.find("flat-iib", 1, "D^4R^4", (1, 0))
+    # Derived: B_(1,0) = E_2 with s = -alpha'(k1+k2)^2/4 (arXiv:0801.0322); with s' = 2s the
+    # sigma2' coefficient is E_2/4, and E_2 = pi^-2 E_2' for E_2' = sum' tau2^2/|m tau + n|^4.
+    assert parse(d4.coefficient) == parse("E(2)") / (4 * pi**2)
+    # Textbook constant term (from memory, common practice): E_s' = 2 zeta(2s) tau2^s
+    # + 2 sqrt(pi) Gamma(s-1/2) zeta(2s-1)/Gamma(s) tau2^(1-s): pi^4/45 tau2^2 + pi zeta(3)/tau2.
+    terms = {t["power"]: sympy.sympify(t["coefficient"]) for t in d4.derived["laurent"]["terms"]}
+    assert terms == {2: sympy.simplify(pi**4 / 45 / (4 * pi**2)), -1: sympy.simplify(pi * zeta(3) / (4 * pi**2))}
+    d6 = project.find("flat-iib", 1, "D^6R^4", (0, 1))
+    # B_(0,1) = 5/3 E_3 + zeta(3)/3 (D'Hoker, Green, Vanhove 2015, arXiv:1502.06698), so here
+    # (5/3 pi^-3 E_3' + zeta(3)/3)/8.
+    assert parse(d6.coefficient) == (sympy.Rational(5, 3) * parse("E(3)") / pi**3 + zeta(3) / 3) / 8
+    # Its renormalised integral: E_3 integrates to 0 (Zagier 1981, from memory), zeta(3)/3 to
+    # zeta(3)/3 * pi/3; times 1/8 (s' = 2s) and 3/pi (unit-volume measure) gives zeta(3)/24.
+    assert sympy.sympify(d6.derived["integral"]["exact"]) == zeta(3) / 24
+    r4 = project.find("flat-iib", 1, "R^4", (0, 0))
+    assert sympy.sympify(r4.derived["integral"]["exact"]) == 1  # Vol(F) in the unit-volume measure
+
+
+def test_bad_derived_data_is_bad_input_naming_the_entry(engine_project, tmp_path, capsys):
+    first = _save(engine_project, tmp_path / "a.toml")
+    broken = convert_project(engine_project, OTHER)
+    broken.find("flat-iib", 1, "D^4R^4", (1, 0)).derived["values"][0]["value"] = "lots"
+    second = _save(broken, tmp_path / "b.toml")
+    assert main(["diff", first, second]) == 2
+    err = capsys.readouterr().err
+    assert "entry e0005" in err and "not a decimal number" in err and err.count("\n") == 1

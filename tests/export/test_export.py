@@ -183,3 +183,22 @@ def test_escape_latex_covers_every_special_character():
                           "}": "\\}", "~": "\\~{}", "^": "\\^{}", "\\": "$\\backslash$"}.items():
         assert escape_latex(char) == escaped
     assert escape_latex("☃") == "?"
+
+
+@pytest.mark.parametrize("derived, message", [
+    ({"laurent": {"terms": [{"power": "two", "coefficient": "1"}]}}, "integer"),
+    ({"laurent": {"variable": "q", "terms": []}}, "unknown variable"),
+    ({"integral": {"value": "lots", "digits": 20}}, "not a decimal number"),
+    ({"integral": {"exact": "E(2)"}}, "must be a constant"),
+    ({"laurent": {"digits": "many", "terms": []}}, "'digits' must be a positive integer"),
+])
+def test_bad_derived_data_is_bad_input_naming_the_entry(tmp_path, capsys, derived, message):
+    project = nasty_project()
+    project.entries[0].derived = derived
+    path = tmp_path / "bad.toml"
+    project.save(path)
+    target = tmp_path / "out.csv"
+    assert main(["export", str(path), "--csv", "-o", str(target)]) == 2
+    err = capsys.readouterr().err
+    assert "entry e0001" in err and message in err and err.count("\n") == 1
+    assert not target.exists()

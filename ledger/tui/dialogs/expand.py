@@ -58,7 +58,7 @@ class ExpandDialog(Dialog):
         background = self.query_one("#background", Select).value
         level = "tree level" if tree else "genus one"
         task = Task(TASK, f"Expansion to weight {order} ({level})",
-                    partial(engine.expand, order, tree, reduce, background))
+                    partial(_expand_and_plan, self.app.project, order, tree, reduce, background))
         self.query_one(ProgressPanel).start(task.title)
         self.app.tasks.start(self, task)
 
@@ -84,3 +84,10 @@ class ExpandDialog(Dialog):
     def on_task_cancelled(self, message: TaskCancelled) -> None:
         self.query_one(ProgressPanel).stop()
 
+
+def _expand_and_plan(project, order, tree, reduce, background, job):
+    """Worker body: the expansion, then the merge plan with its derived data (nothing stored)."""
+    from ledger.book.fill import plan_merge
+
+    payload = engine.expand(order, tree, reduce, background, job.part(0, 0.1))
+    return plan_merge(project, payload, job=job.part(0.1, 1))

@@ -11,10 +11,17 @@ from ledger.tui.dialogs.base import Dialog
 
 
 def nearby_projects() -> list[str]:
-    """*.toml files in the working directory and in projects/ (for completion)."""
-    found = sorted(str(p) for p in Path(".").glob("*.toml"))
-    found += sorted(str(p) for p in Path("projects").glob("*.toml")) if Path("projects").is_dir() else []
-    return found
+    """Project files (TOML with a schema_version) here and in projects/, for completion."""
+    candidates = sorted(Path(".").glob("*.toml")) + sorted(Path("projects").glob("*.toml"))
+    return [str(p) for p in candidates if _looks_like_project(p)]
+
+
+def _looks_like_project(path: Path) -> bool:
+    try:
+        with path.open("rb") as stream:
+            return b"schema_version" in stream.read(4096)
+    except OSError:
+        return False
 
 
 class PathDialog(Dialog):

@@ -10,7 +10,7 @@ from textual.widgets import DataTable, Static
 from ledger.book import Project, structure_label
 from ledger.errors import LedgerError
 from ledger.tui import engine
-from ledger.tui.display import coefficient_unicode, operator_unicode, structure_unicode
+from ledger.tui.display import coefficient_unicode, operator_with_structure
 from ledger.tui.screens.base import LedgerScreen
 from ledger.tui.tasks import Task, TaskFinished
 from ledger.tui.widgets.entries_table import shorten
@@ -41,8 +41,7 @@ class DiffScreen(LedgerScreen):
     def on_mount(self) -> None:
         table = self.query_one(DataTable)
         for key, label in (("verdict", "Verdict"), ("where", "Background"), ("genus", "g"),
-                           ("operator", "Operator"), ("structure", "σ"), ("a", "A"), ("b", "B"),
-                           ("factor", "A/B")):
+                           ("operator", "Operator"), ("a", "A"), ("b", "B"), ("factor", "A/B")):
             table.add_column(label, key=key)
         self.query_one("#diff-details").border_title = "Selected row"
         if self.other_path:
@@ -112,8 +111,8 @@ class DiffScreen(LedgerScreen):
             if wanted is not None and row.status not in wanted:
                 continue
             background, genus, operator, (p, q) = row.key
-            table.add_row(VERDICTS[row.status], background, str(genus), operator_unicode(operator),
-                          structure_unicode(structure_label(p, q)),
+            table.add_row(VERDICTS[row.status], background, str(genus),
+                          operator_with_structure(operator, structure_label(p, q)),
                           row.first.id if row.first is not None else "—",
                           row.second.id if row.second is not None else "—",
                           row.factor, key=str(index))

@@ -7,7 +7,7 @@ import math
 from textual.widgets import DataTable
 
 from ledger.tui.display import (
-    coefficient_unicode, integral_short, operator_unicode, structure_unicode,
+    coefficient_unicode, integral_short, operator_with_structure,
 )
 
 MIN_COEFFICIENT_WIDTH = 16
@@ -42,10 +42,7 @@ def sort_key(column: str, backgrounds: dict):
 
 
 def operator_label(entry) -> str:
-    """'D⁶R⁴ σ₃' (R⁴ alone for the structure 1)."""
-    structure = structure_unicode(entry.structure)
-    operator = operator_unicode(entry.operator)
-    return operator if structure == "1" else f"{operator} {structure}"
+    return operator_with_structure(entry.operator, entry.structure)
 
 
 def shorten(text: str, width: int) -> str:

@@ -53,7 +53,7 @@ class ExpressionInput(Vertical):
         feedback = self.query_one(".expression-feedback", Static)
         if not text.strip():
             self.valid = False
-            feedback.update("type an expression: E(3), C(2,1,1), graph(0-1, 1-2, 2-0:2), zeta(3), 2/5, + - * ^")
+            feedback.update("E(3), C(2,1,1), graph(0-1,1-2,2-0:2), zeta(3), 2/5 with + - * / ^")
             self.set_class(False, "-invalid")
         else:
             from ledger.expr import parse
