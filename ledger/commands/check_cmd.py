@@ -26,16 +26,21 @@ def register(subparsers) -> None:
     parser.set_defaults(run=run)
 
 
-def recheck_entry(entry, digits: int, job=None) -> list[dict]:
-    """Recompute the stored values of one entry; one result per stored value."""
+def recheck_entry(entry, digits: int, conventions: dict | None = None, job=None) -> list[dict]:
+    """Recompute the stored values of one entry; one result per stored value.
+
+    The coefficient is read in the project's conventions: the engine evaluates its
+    engine form (same function, engine atoms), which gives the project's own numbers.
+    """
     import mpmath
 
+    from ledger.book.transform import engine_form
     from ledger.expr import parse
     from ledger.expr.tau import parse_tau
     from ledger.mgf.evaluate import evaluate
 
     results = []
-    expr = parse(entry.coefficient)
+    expr = engine_form(parse(entry.coefficient), conventions or {})
     for stored in entry.derived.get("values", []):
         use = max(5, min(int(stored.get("digits", digits)), digits))
         value = evaluate(expr, parse_tau(stored["tau"]), use, job)
@@ -60,7 +65,7 @@ def run(args) -> int:
         if not args.no_recompute:
             for entry in project.entries:
                 try:
-                    checked.extend(recheck_entry(entry, args.digits))
+                    checked.extend(recheck_entry(entry, args.digits, project.conventions))
                 except ImportError:
                     engine_missing = True
                     break

@@ -5,6 +5,8 @@ True digits are measured against the engine's own 45-digit value, which the
 tests check against published identities (C(1,1,1) = E3 + zeta(3), ...); the
 peer's time is the time its extrapolated box sums need to agree to 12 digits
 (it stalls near 13 digits in float64, so 15 digits are out of its reach).
+Times are CPU seconds of this process (time.process_time), so that other jobs
+on a shared machine do not inflate them; both sides are single-threaded.
 """
 
 from __future__ import annotations
@@ -39,9 +41,9 @@ def run(report) -> None:
 
     for weights in GRAPHS:
         for label, tau in TAUS.items():
-            start = time.perf_counter()
+            start = time.process_time()
             value = dihedral_value(weights, tau, digits=30)
-            seconds = time.perf_counter() - start
+            seconds = time.process_time() - start
             reference = dihedral_value(weights, tau, digits=45)
             name = f"C{weights} at {label}, 30 digits"
             report(name, seconds, _true_digits(value.value, reference.value),
@@ -49,9 +51,9 @@ def run(report) -> None:
     for weights in PEER_GRAPHS:
         tau = TAUS["0.27+1.31i"]
         reference = dihedral_value(weights, tau, digits=45).value
-        start = time.perf_counter()
+        start = time.process_time()
         value = dihedral_value(weights, tau, digits=12)
-        engine_seconds = time.perf_counter() - start
+        engine_seconds = time.process_time() - start
         peer_value, _, peer_seconds = peer_dihedral(weights, complex(tau), target_digits=12)
         peer_digits = _true_digits(mpmath.mpf(peer_value), reference)
         report(f"C{weights} at 0.27+1.31i, 12 digits (peer {peer_seconds:.1f} s)",
