@@ -48,6 +48,8 @@ from ledger.mgf.values import Value
 GUARD_DIGITS = 12
 ABEL_PLANA_NODES = 24
 SPLIT_STEP = 12     # the second split, for the error estimate, is at Z + SPLIT_STEP
+MAX_SPLIT = 160.0   # beyond this the box and the quadrature grow too large
+MAX_ATTEMPTS = 3
 
 
 def split_radius(digits: int) -> float:
@@ -56,8 +58,12 @@ def split_radius(digits: int) -> float:
     return max(36.0, 2 * target - 8 * math.log(2 * target))
 
 
-def cycle_value(bundles, tau, digits: int = 20, job: Job | None = None) -> Value:
+def cycle_value(bundles, tau, digits: int = 20, job: Job | None = None,
+                reduce_tau: bool = True) -> Value:
     """sum_p prod_b B^_b(p) for a cycle of bundles, each a tuple of edge weights.
+
+    If the error estimate misses ``digits`` the split is moved out (up to twice);
+    ``reduce_tau=False`` evaluates at tau as given (for modular-invariance checks).
 
     >>> import mpmath
     >>> v = cycle_value([(1, 1), (1,), (1,)], mpmath.mpc(0, 1), digits=10)   # C(2,1,1)
@@ -67,14 +73,29 @@ def cycle_value(bundles, tau, digits: int = 20, job: Job | None = None) -> Value
     bundles = [tuple(sorted(int(a) for a in b)) for b in bundles]
     if len(bundles) < 2 or any(not b or min(b) < 1 for b in bundles):
         raise LedgerError(f"a cycle needs at least two bundles of positive weights, got {bundles}")
-    if not isinstance(digits, int) or not 1 <= digits <= 60:
+    if isinstance(digits, bool) or not isinstance(digits, int) or not 1 <= digits <= 60:
         raise LedgerError(f"digits must be an integer between 1 and 60, got {digits!r}")
     job = ensure_job(job)
     ctx = mpmath.MPContext()
     ctx.dps = digits + GUARD_DIGITS
-    tau = to_fundamental_domain(ctx.mpc(tau), ctx)
-    tau2 = tau.imag
-    split = split_radius(digits)
+    tau = ctx.mpc(tau)
+    if reduce_tau:
+        tau = to_fundamental_domain(tau, ctx)
+    elif not tau.imag > 0:
+        raise LedgerError(f"tau must lie in the upper half plane, got {tau}")
+    split = min(split_radius(digits), MAX_SPLIT)
+    for attempt in range(MAX_ATTEMPTS):
+        value, error = _cycle_sum(bundles, tau, digits, split, ctx,
+                                  job.part(attempt / MAX_ATTEMPTS, (attempt + 1) / MAX_ATTEMPTS))
+        if error <= ctx.mpf(10) ** (-digits) * abs(value) or split >= MAX_SPLIT:
+            break
+        split = min(split + 2 * SPLIT_STEP, MAX_SPLIT)
+    job.report(1.0, "cycle of bundles: done")
+    return Value(export(ctx.re(value)), export(error), digits)
+
+
+def _cycle_sum(bundles, tau, digits, split, ctx, job):
+    """(value, error) with the split at ``split`` (and the error check at split + SPLIT_STEP)."""
     outer = split + SPLIT_STEP
     multi = sorted({b for b in bundles if len(b) > 1})
     points = _half_box(tau, outer, ctx)
@@ -92,7 +113,7 @@ def cycle_value(bundles, tau, digits: int = 20, job: Job | None = None) -> Value
     for s in series[1:]:
         product = multiply(product, s, leading + degree)
     job.report(0.9, "cycle of bundles: sums beyond the split")
-    evaluate = _product_evaluator(series, tau, outer * tau2 / (2 * ctx.pi), ctx)
+    evaluate = _product_evaluator(series, tau, outer * tau.imag / (2 * ctx.pi), ctx)
     tail, tail_error = _outside(product, evaluate, tau, outer, ctx)
     # moving the split inwards to |zeta| = split: the annulus by the series instead of the box
     annulus = ctx.zero
@@ -104,9 +125,8 @@ def cycle_value(bundles, tau, digits: int = 20, job: Job | None = None) -> Value
     inner_box = _box_sum(bundles, tables[1], points, tau, split, ctx)
     value = box[1] + tail
     error = (abs(box[1] - box[0]) + abs(box[1] - inner_box - annulus) + tail_error
-             + ctx.mpf(10) ** (-digits - GUARD_DIGITS + 4))
-    job.report(1.0, "cycle of bundles: done")
-    return Value(export(ctx.re(value)), export(error), digits)
+             + ctx.mpf(10) ** (-digits - GUARD_DIGITS + 4) * (1 + abs(value)))
+    return value, error
 
 
 def _series_degree(digits: int, split: float) -> int:
@@ -272,9 +292,7 @@ def _abel_plana(g, start: int, length, ctx):
 def _far_rows(series, tau, start: int, ctx):
     """sum over m >= start, all n, of the series at p = m tau + n, by Poisson in n (exact up to
     exp(-2 pi m tau2)): sum_n f(m tau + n) = m int f(m (tau + s)) ds, then Hurwitz zeta in m."""
-    tau2 = tau.imag
     c0 = log_constant(tau, ctx)
-    unit_p = ctx.one   # the series is written directly in p and pbar
     total = ctx.zero
     cache: dict = {}
     for (a, b, i), c in series.items():
@@ -290,7 +308,7 @@ def _far_rows(series, tau, start: int, ctx):
             for t in range(i - r + 1):
                 coefficient = (math.comb(i, r) * math.comb(i - r, t) * c0 ** (i - r - t) * 2 ** t)
                 zeta_sum = (-1) ** t * ctx.zeta(sigma, start, derivative=t)
-                total += c * unit_p * coefficient * j * zeta_sum
+                total += c * coefficient * j * zeta_sum
     return total
 
 

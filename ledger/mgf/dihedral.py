@@ -100,7 +100,8 @@ def _radial_nodes(ray: complex, tau: complex, digits: float) -> int:
                     rho = abs(x + cmath.sqrt(x * x - 1))
                     nearest = min(nearest, max(rho, 1 / rho))
     rate = math.log10(nearest) + RADIAL_MARGIN
-    return max(6, math.ceil(digits / rate))
+    # rounded up to a multiple of 4, so that few distinct rules are built
+    return max(8, 4 * math.ceil(digits / rate / 4))
 
 
 def working_bits(digits: float) -> int:
@@ -109,22 +110,27 @@ def working_bits(digits: float) -> int:
 
 
 def integrate_dihedral(weights, tau, bits: int, rule: Rule, job: Job | None = None):
-    """The torus average of prod G_a for tau in the fundamental domain (mpf)."""
+    """The torus average of prod G_a (mpf); tau should lie in the fundamental domain."""
+    return integrate_dihedrals([tuple(weights)], tau, bits, rule, job)[0]
+
+
+def integrate_dihedrals(graphs, tau, bits: int, rule: Rule, job: Job | None = None) -> list:
+    """[torus average of prod G_a for each weight tuple in ``graphs``] (mpf): one pass
+    over the quadrature points, the edge functions evaluated once per point."""
     job = ensure_job(job)
-    kernels = EdgeKernels(tau, weights, bits)
+    kernels = EdgeKernels(tau, {a for weights in graphs for a in weights}, bits)
     fp = kernels.fp
     ctx = mpmath.MPContext()
     ctx.prec = bits + 30
     tau = ctx.mpc(tau)
     tau2 = tau.imag
-    multiplicity = sorted(Counter(weights).items())
+    exponents = [[Counter(weights)[a] for a in kernels.weights] for weights in graphs]
     height = min(tau2 / 2, ctx.mpf(STRIP_HEIGHT))
-    inner = _strip_integral(kernels, multiplicity, height, rule, ctx, job.part(0, 0.8))
-    outer = 0
+    totals = _strip_integral(kernels, exponents, height, rule, ctx, job.part(0, 0.8))
     if tau2 / 2 > height:
-        outer = _upper_integral(kernels, multiplicity, height, tau2 / 2, rule, ctx,
-                                job.part(0.8, 1))
-    return 2 * fp.to_mpf(inner + outer, ctx) / tau2
+        upper = _upper_integral(kernels, exponents, height, tau2 / 2, rule, ctx, job.part(0.8, 1))
+        totals = [a + b for a, b in zip(totals, upper)]
+    return [2 * fp.to_mpf(total, ctx) / tau2 for total in totals]
 
 
 def _mp_rule(rule, ctx) -> tuple:
@@ -148,16 +154,15 @@ def _angular_panels(height, rule: Rule, ctx):
     return panels
 
 
-def _strip_integral(kernels, multiplicity, height, rule: Rule, ctx, job: Job):
-    """int over 0 <= y <= height, |x| <= 1/2 of prod G in fixed point (polar around 0)."""
+def _strip_integral(kernels, exponents, height, rule: Rule, ctx, job: Job) -> list:
+    """[int over 0 <= y <= height, |x| <= 1/2 of prod G] in fixed point (polar around 0)."""
     fp = kernels.fp
     bits = fp.bits
-    exponents = [count for _, count in multiplicity]
-    order = sum(exponents)
+    order = max(sum(row) for row in exponents)
     tau_float = complex(kernels.tau)
     phis, phi_weights = _mp_rule(gauss_legendre(rule.angular, bits), ctx)
     panels = _angular_panels(height, rule, ctx)
-    total = 0
+    totals = [0] * len(exponents)
     rays = len(panels) * len(phis)
     done = 0
     for start, stop, distance, normal in panels:
@@ -167,44 +172,50 @@ def _strip_integral(kernels, multiplicity, height, rule: Rule, ctx, job: Job):
             reach = distance / ctx.cos(phi - normal)
             # a ray below the real axis is evaluated as its mirror z -> -z (f is even)
             sign = -1 if phi < 0 else 1
-            reach_cos = fp.from_number(sign * reach * ctx.cos(phi))
-            reach_sin = fp.from_number(sign * reach * ctx.sin(phi))
-            reach2 = fp.from_number(reach * reach)
-            log_reach2 = fp.from_number(2 * ctx.log(reach))
-            ray_vector = complex(sign * reach * ctx.cos(phi), sign * reach * ctx.sin(phi))
-            radial = radial_rule(_radial_nodes(ray_vector, tau_float, rule.radial_digits),
+            ray = _Ray(fp, sign * reach * ctx.cos(phi), sign * reach * ctx.sin(phi), ctx)
+            radial = radial_rule(_radial_nodes(ray.vector, tau_float, rule.radial_digits),
                                  order, bits)
-            ray = _ray_sum(kernels, exponents, radial, reach_cos, reach_sin, reach2,
-                           log_reach2, order)
-            total += fp.from_number(w * width * reach * reach) * ray >> bits
+            weight = fp.from_number(w * width * reach * reach)
+            for index, value in enumerate(_ray_sums(kernels, exponents, radial, ray)):
+                totals[index] += (weight * value) >> bits
             done += 1
             job.report(done / rays, "dihedral: integrating around the singular point")
-    return total
+    return totals
 
 
-def _ray_sum(kernels, exponents, radial, reach_cos, reach_sin, reach2, log_reach2, order):
-    """int_0^1 s ds f(s R e^(i phi)) along one ray, by the radial product rule."""
+class _Ray:
+    """z = s * (reach_cos + i reach_sin), s in [0, 1], in fixed point."""
+
+    def __init__(self, fp, reach_cos, reach_sin, ctx):
+        self.vector = complex(reach_cos, reach_sin)
+        self.cos = fp.from_number(reach_cos)
+        self.sin = fp.from_number(reach_sin)
+        self.length2 = fp.from_number(reach_cos ** 2 + reach_sin ** 2)
+        self.log_length2 = fp.from_number(ctx.log(reach_cos ** 2 + reach_sin ** 2))
+
+
+def _ray_sums(kernels, exponents, radial, ray) -> list:
+    """[int_0^1 s ds f(s R e^(i phi)) for each graph] along one ray, by the product rule."""
     bits = kernels.bits
     one = kernels.fp.one
     weights = radial.weights
-    total = 0
+    log_length2 = ray.log_length2
+    totals = [0] * len(exponents)
     for i, (s, log_s) in enumerate(zip(radial.nodes, radial.log_nodes)):
-        x = (s * reach_cos) >> bits
-        y = (s * reach_sin) >> bits
-        r2 = (((s * s) >> bits) * reach2) >> bits
-        log_r2 = 2 * log_s + log_reach2
-        regular = kernels.regular_parts(x, y, r2, log_r2)
-        log_coeffs = kernels.log_coefficients(r2)
-        # prod_a (R_a + g_a L)^k with L = 2 sigma + log R^2, as a polynomial in sigma = log s
-        poly = [one]
-        for value, g, count in zip(regular, log_coeffs, exponents):
-            constant = value + ((g * log_reach2) >> bits)
-            slope = 2 * g
-            for _ in range(count):
-                poly = _times_linear(poly, constant, slope, bits)
-        for k in range(order + 1):
-            total += weights[k][i] * poly[k]
-    return total >> bits
+        x = (s * ray.cos) >> bits
+        y = (s * ray.sin) >> bits
+        r2 = (((s * s) >> bits) * ray.length2) >> bits
+        regular = kernels.regular_parts(x, y, r2, 2 * log_s + log_length2)
+        # G_a = R_a + g_a L with L = 2 sigma + log R^2: linear in sigma = log s
+        linear = [(value + ((g * log_length2) >> bits), 2 * g)
+                  for value, g in zip(regular, kernels.log_coefficients(r2))]
+        for index, row in enumerate(exponents):
+            poly = [one]
+            for (constant, slope), count in zip(linear, row):
+                for _ in range(count):
+                    poly = _times_linear(poly, constant, slope, bits)
+            totals[index] += sum(weights[k][i] * c for k, c in enumerate(poly))
+    return [total >> bits for total in totals]
 
 
 def _times_linear(poly, constant, slope, bits):
@@ -214,11 +225,10 @@ def _times_linear(poly, constant, slope, bits):
     return out
 
 
-def _upper_integral(kernels, multiplicity, low, high, rule: Rule, ctx, job: Job):
-    """int over low <= y <= high, |x| <= 1/2 of prod G (no singular point there)."""
+def _upper_integral(kernels, exponents, low, high, rule: Rule, ctx, job: Job) -> list:
+    """[int over low <= y <= high, |x| <= 1/2 of prod G] (no singular point there)."""
     fp = kernels.fp
     bits = fp.bits
-    exponents = [count for _, count in multiplicity]
     ys, y_weights = _mp_rule(gauss_legendre(rule.vertical, bits), ctx)
     panels = []
     start = low
@@ -228,7 +238,7 @@ def _upper_integral(kernels, multiplicity, low, high, rule: Rule, ctx, job: Job)
             stop = high
         panels.append((start, stop))
         start = stop
-    total = 0
+    totals = [0] * len(exponents)
     for index, (start, stop) in enumerate(panels):
         points = max(4, math.ceil(rule.trapezoid_scale / float(start)))
         xs = [fp.from_number(ctx.mpf(2 * k + 1) / (2 * points) - ctx.mpf(1) / 2)
@@ -236,16 +246,20 @@ def _upper_integral(kernels, multiplicity, low, high, rule: Rule, ctx, job: Job)
         width = stop - start
         for t, w in zip(ys, y_weights):
             y = fp.from_number(start + width * t)
-            line = 0
+            lines = [0] * len(exponents)
             for x in xs:
-                product = fp.one
-                for value, count in zip(kernels.values(x, y), exponents):
-                    for _ in range(count):
-                        product = (product * value) >> bits
-                line += product
-            total += fp.from_number(w * width / points) * line >> bits
+                values = kernels.values(x, y)
+                for graph, row in enumerate(exponents):
+                    product = fp.one
+                    for value, count in zip(values, row):
+                        for _ in range(count):
+                            product = (product * value) >> bits
+                    lines[graph] += product
+            weight = fp.from_number(w * width / points)
+            for graph, line in enumerate(lines):
+                totals[graph] += (weight * line) >> bits
         job.report((index + 1) / len(panels), "dihedral: integrating the upper region")
-    return total
+    return totals
 
 
 def dihedral_value(weights, tau, digits: int = 30, job: Job | None = None) -> Value:
@@ -255,35 +269,65 @@ def dihedral_value(weights, tau, digits: int = 30, job: Job | None = None) -> Va
     >>> v.correct_digits() >= 15
     True
     """
-    weights = tuple(weights)
-    if len(weights) < 2 or not all(isinstance(a, int) and not isinstance(a, bool) and a >= 1
-                                   for a in weights):
-        raise LedgerError(f"C(...) needs at least two positive integer weights, got {weights}")
+    return dihedral_values([weights], tau, digits, job)[0]
+
+
+def dihedral_values(graphs, tau, digits: int = 30, job: Job | None = None) -> list:
+    """[C(weights)(tau) for weights in graphs], computed together (shared edge functions).
+
+    >>> c111, c211 = dihedral_values([(1, 1, 1), (2, 1, 1)], mpmath.mpc(0, 1), digits=12)
+    >>> mpmath.nstr(c111.value, 12), mpmath.nstr(c211.value, 12)
+    ('1.35231401605', '0.219765455942')
+    """
+    graphs = [_checked_weights(weights) for weights in graphs]
     if isinstance(digits, bool) or not isinstance(digits, int) or not 1 <= digits <= MAX_DIGITS:
         raise LedgerError(f"digits must be an integer between 1 and {MAX_DIGITS}, got {digits!r}")
-    if len(weights) == 2:
-        from ledger.mgf.eisenstein import eisenstein_value
-        return eisenstein_value(sum(weights), tau, digits, job)
     job = ensure_job(job)
     ctx = mpmath.MPContext()
     ctx.dps = digits + 15
     tau_f = to_fundamental_domain(ctx.mpc(tau), ctx)
+    results = {}
+    for index, weights in enumerate(graphs):
+        if len(weights) == 2:
+            from ledger.mgf.eisenstein import eisenstein_value
+            results[index] = eisenstein_value(sum(weights), tau_f, digits)
+    pending = sorted({_canonical(weights) for weights in graphs if len(weights) > 2})
     target = ctx.mpf(10) ** (-digits)
     # each level aims LEVEL_STEP digits higher than the one before; the error of a
     # level is bounded by its difference to the next (geometric convergence)
     aims = [digits + 1 + LEVEL_STEP * k for k in range(MAX_LEVELS)]
     part = 1 / MAX_LEVELS
 
-    def level(k):
-        return ctx.convert(integrate_dihedral(weights, tau_f, working_bits(aims[k]),
-                                              rule_for(aims[k]), job.part(k * part, (k + 1) * part)))
+    def level(k, todo):
+        values = integrate_dihedrals(todo, tau_f, working_bits(aims[k]), rule_for(aims[k]),
+                                     job.part(k * part, (k + 1) * part))
+        return {weights: ctx.convert(value) for weights, value in zip(todo, values)}
 
-    lower = level(0)
+    done = {}
+    lower = level(0, pending) if pending else {}
     for k in range(1, MAX_LEVELS):
-        upper = level(k)
-        error = 2 * abs(upper - lower) + ctx.mpf(2) ** (-working_bits(aims[0]) + 20) * abs(upper)
-        if error <= target * abs(upper) or k == MAX_LEVELS - 1:
-            job.report(1.0, "dihedral: done")
-            return Value(export(upper), export(error), digits)
+        if not pending:
+            break
+        upper = level(k, pending)
+        floor = ctx.mpf(2) ** (-working_bits(aims[0]) + 20)
+        for weights in pending:
+            error = 2 * abs(upper[weights] - lower[weights]) + floor * abs(upper[weights])
+            if error <= target * abs(upper[weights]) or k == MAX_LEVELS - 1:
+                done[weights] = Value(export(upper[weights]), export(error), digits)
+        pending = [weights for weights in pending if weights not in done]
         lower = upper
-    raise AssertionError("unreachable")
+    job.report(1.0, "dihedral: done")
+    return [results[i] if i in results else done[_canonical(weights)]
+            for i, weights in enumerate(graphs)]
+
+
+def _canonical(weights) -> tuple:
+    return tuple(sorted(weights, reverse=True))
+
+
+def _checked_weights(weights) -> tuple:
+    weights = tuple(weights)
+    if len(weights) < 2 or not all(isinstance(a, int) and not isinstance(a, bool) and a >= 1
+                                   for a in weights):
+        raise LedgerError(f"C(...) needs at least two positive integer weights, got {weights}")
+    return weights

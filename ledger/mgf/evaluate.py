@@ -55,7 +55,7 @@ def evaluate(expr, tau, digits: int = 30, job: Job | None = None) -> Value:
     for attempt in range(MAX_RETRIES + 1):
         ctx = mpmath.MPContext()
         ctx.dps = digits + extra + GUARD_DIGITS
-        values = _atom_values(atoms, tau, digits + extra, cache, ctx, job, attempt)
+        values = _atom_values(atoms, tau, digits + extra, cache, ctx, job)
         value, error = _walk(expr, values, ctx)
         size = abs(value)
         # retry only after cancellation that left some, but too few, digits; a value
@@ -88,11 +88,10 @@ def _as_tau(tau):
     if isinstance(tau, str):
         from ledger.expr.tau import parse_tau
         return parse_tau(tau)
-    if not isinstance(tau, (mpmath.mpc, mpmath.mpf)):  # keep every bit of an mpmath number
-        try:
-            tau = mpmath.mpmathify(tau)
-        except (TypeError, ValueError) as exc:
-            raise LedgerError(f"tau must be a complex number, got {tau!r}") from exc
+    try:
+        tau = mpmath.mpmathify(tau)  # keeps every bit of an mpmath number from any context
+    except (TypeError, ValueError) as exc:
+        raise LedgerError(f"tau must be a complex number, got {tau!r}") from exc
     if not mpmath.im(tau) > 0:
         raise LedgerError(f"tau must lie in the upper half plane (Im tau > 0), got {tau}")
     return tau
@@ -112,26 +111,38 @@ def _atoms(expr) -> set:
     return found - inner
 
 
-def _atom_values(atoms, tau, digits, cache, ctx, job, attempt) -> dict:
-    """{atom: (value, error)} in ctx, reusing cached values that are accurate enough."""
-    reduced = None
-    out = {}
+def _atom_values(atoms, tau, digits, cache, ctx, job) -> dict:
+    """{atom: (value, error)} in ctx, reusing cached values that are accurate enough;
+    the dihedral atoms are computed together (one pass over the torus)."""
     need = ctx.mpf(10) ** (-digits)
-    for index, atom in enumerate(atoms):
-        cached = cache.get(atom)
-        if cached is None or cached.error > need * abs(cached.value):
-            family = type(atom).__name__
-            part = job.part(index / len(atoms), (index + 1) / len(atoms))
-            if family in GRAPH_FAMILY or (family == "Laplace" and not _has_theta(atom)):
-                if reduced is None:
-                    reduced = export(to_fundamental_domain(ctx.convert(tau), ctx))
-                point = reduced
-            else:
-                point = tau
-            cached = cache[atom] = _atom_value(atom, family, point, digits, part)
-        out[atom] = (ctx.convert(cached.value), ctx.convert(cached.error))
-        job.report((index + 1) / len(atoms), f"evaluated {atom}")
-    return out
+    todo = [atom for atom in atoms
+            if atom not in cache or cache[atom].error > need * abs(cache[atom].value)]
+    reduced = None
+    if any(_is_invariant(atom) for atom in todo):
+        reduced = export(to_fundamental_domain(ctx.convert(tau), ctx))
+    dihedrals = [atom for atom in todo if type(atom).__name__ == "C"]
+    others = [atom for atom in todo if type(atom).__name__ != "C"]
+    share = len(dihedrals) / len(todo) if todo else 0
+    if dihedrals:
+        from ledger.mgf.dihedral import dihedral_values
+        weights = [tuple(int(a) for a in atom.args) for atom in dihedrals]
+        for atom, value in zip(dihedrals, dihedral_values(weights, reduced, digits,
+                                                          job.part(0, share))):
+            cache[atom] = value
+    for index, atom in enumerate(others):
+        part = job.part(share + (1 - share) * index / len(others),
+                        share + (1 - share) * (index + 1) / len(others))
+        cache[atom] = _atom_value(atom, type(atom).__name__,
+                                  reduced if _is_invariant(atom) else tau, digits, part)
+        job.report(share + (1 - share) * (index + 1) / len(others), f"evaluated {atom}")
+    return {atom: (ctx.convert(cache[atom].value), ctx.convert(cache[atom].error))
+            for atom in atoms}
+
+
+def _is_invariant(atom) -> bool:
+    """Graph functions (and Laplacians of them) are evaluated at the reduced tau."""
+    family = type(atom).__name__
+    return family in GRAPH_FAMILY or (family == "Laplace" and not _has_theta(atom))
 
 
 def _has_theta(atom) -> bool:
@@ -142,9 +153,6 @@ def _atom_value(atom, family, tau, digits, job) -> Value:
     if family == "E":
         from ledger.mgf.eisenstein import eisenstein_value
         return eisenstein_value(int(atom.args[0]), tau, digits, job)
-    if family == "C":
-        from ledger.mgf.dihedral import dihedral_value
-        return dihedral_value(tuple(int(a) for a in atom.args), tau, digits, job)
     if family == "GraphFunction":
         return _optional("ledger.mgf.multivertex", "graph_value", "general graph functions")(
             atom.graph, tau, digits, job)
@@ -172,6 +180,9 @@ def _walk(expr, values, ctx):
     """(value, error bound) of expr in ctx."""
     if expr in values:
         return values[expr]
+    if expr.is_Float:  # a binary float is exactly the number it holds
+        value = ctx.make_mpf(expr._mpf_)
+        return value, _rounding(ctx, abs(value))
     if expr.is_Rational:
         return ctx.mpf(int(expr.p)) / int(expr.q), _rounding(ctx, abs(ctx.mpf(int(expr.p)) / int(expr.q)))
     if isinstance(expr, sympy.Add):

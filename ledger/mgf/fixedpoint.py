@@ -61,9 +61,6 @@ class FixedPoint:
     def mul(self, a, b) -> mpz:
         return (a * b) >> self.bits
 
-    def div(self, a, b) -> mpz:
-        return (a << self.bits) // b
-
     # packing ---------------------------------------------------------------
     def pack(self, values) -> mpz:
         """Fixed-point numbers, one per slot, lowest slot first."""
@@ -96,15 +93,9 @@ class FixedPoint:
         shift = exponent + self.bits
         return mantissa << shift if shift >= 0 else mantissa >> -shift
 
-    def exp(self, v) -> mpz:
-        return self.from_gmp(self.gmp.exp(self.to_gmp(v)))
-
     def cos_sin(self, v) -> tuple:
         sin, cos = self.gmp.sin_cos(self.to_gmp(v))
         return self.from_gmp(cos), self.from_gmp(sin)
 
     def log(self, v) -> mpz:
         return self.from_gmp(self.gmp.log(self.to_gmp(v)))
-
-    def sqrt(self, v) -> mpz:
-        return gmpy2.isqrt(mpz(v) << self.bits)

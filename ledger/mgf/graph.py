@@ -199,18 +199,29 @@ def canonical_form(graph: Graph) -> Graph:
     return Graph(n, best if best is not None else ())
 
 
-def _count_components(n: int, edges) -> int:
-    parent = list(range(n))
+class _UnionFind:
+    """Connected components by union-find over arbitrary hashable vertices."""
 
-    def find(x):
-        while parent[x] != x:
-            parent[x] = parent[parent[x]]
-            x = parent[x]
+    def __init__(self, vertices):
+        self.parent = {x: x for x in vertices}
+
+    def find(self, x):
+        while self.parent[x] != x:
+            self.parent[x] = self.parent[self.parent[x]]
+            x = self.parent[x]
         return x
 
-    for u, v, _ in edges:
-        parent[find(u)] = find(v)
-    return len({find(x) for x in range(n)})
+    def union_edges(self, edges) -> "_UnionFind":
+        for u, v, _ in edges:
+            self.parent[self.find(u)] = self.find(v)
+        return self
+
+    def roots(self) -> set:
+        return {self.find(x) for x in self.parent}
+
+
+def _count_components(n: int, edges) -> int:
+    return len(_UnionFind(range(n)).union_edges(edges).roots())
 
 
 def _drop_isolated(n, edges):
@@ -246,29 +257,18 @@ def _merge_degree_two(n, edges):
 
 
 def _split_blocks(n, edges):
-    """Split at a cut vertex or into connected components; [] if neither applies."""
+    """Split at a cut vertex or into connected components; [(n, edges)] if neither applies."""
     if _count_components(n, edges) > 1:
         return _components(n, edges)
     for x in range(n):
         others = [e for e in edges if x not in (e[0], e[1])]
         touching = [e for e in edges if x in (e[0], e[1])]
-        # vertices other than x, connected through edges avoiding x
-        rest_vertices = [y for y in range(n) if y != x]
-        parent = {y: y for y in rest_vertices}
-
-        def find(y):
-            while parent[y] != y:
-                parent[y] = parent[parent[y]]
-                y = parent[y]
-            return y
-
-        for u, v, _ in others:
-            parent[find(u)] = find(v)
-        roots = {find(y) for y in rest_vertices}
+        forest = _UnionFind(y for y in range(n) if y != x).union_edges(others)
+        roots = forest.roots()
         if len(roots) > 1:
             blocks = []
             for root in roots:
-                members = {y for y in rest_vertices if find(y) == root}
+                members = {y for y in forest.parent if forest.find(y) == root}
                 block = [list(e) for e in others if e[0] in members]
                 block += [list(e) for e in touching if (e[0] in members or e[1] in members)]
                 blocks.append((n, block))
@@ -277,17 +277,8 @@ def _split_blocks(n, edges):
 
 
 def _components(n, edges):
-    parent = list(range(n))
-
-    def find(y):
-        while parent[y] != y:
-            parent[y] = parent[parent[y]]
-            y = parent[y]
-        return y
-
-    for u, v, _ in edges:
-        parent[find(u)] = find(v)
+    forest = _UnionFind(range(n)).union_edges(edges)
     groups: dict = {}
     for e in edges:
-        groups.setdefault(find(e[0]), []).append(list(e))
+        groups.setdefault(forest.find(e[0]), []).append(list(e))
     return [(n, group) for group in groups.values()]

@@ -16,9 +16,9 @@ The candidate is then checked at points not used to find it; the residual
 ``residual_digits``.  No relation is an answer (found = False), not an error.
 
 >>> from ledger.expr import parse
->>> result = find_identity(parse("C(2,2,1)"), [parse("E(5)"), parse("zeta(5)")], digits=20)
->>> result.found, [str(q) for _, q in result.coefficients]
-(True, ['2/5', '1/30'])
+>>> result = find_identity(parse("C(1,1,1) - 2*E(2)^2"), [parse("E(3)"), parse("E(2)^2"), parse("zeta(3)")])
+>>> result.found, [str(q) for _, q in result.coefficients]      # Zagier: C(1,1,1) = E(3) + zeta(3)
+(True, ['1', '-2', '1'])
 """
 
 from __future__ import annotations
@@ -30,7 +30,7 @@ from typing import Callable, Optional
 import mpmath
 import sympy
 
-from ledger.errors import LedgerError, NotAvailableError
+from ledger.errors import LedgerError
 from ledger.mgf.approx import export
 from ledger.mgf.jobs import Job, ensure_job
 from ledger.mgf.values import Value
@@ -125,7 +125,7 @@ def _laurent_constraints(target, basis, digits) -> tuple:
 
     try:
         polynomials = [laurent_polynomial(e, digits) for e in [target] + basis]
-    except NotAvailableError:
+    except LedgerError:  # e.g. a holomorphic theta-family atom has none
         return "unavailable", None, None
     if not all(p.exact for p in polynomials):
         return "unavailable", None, None

@@ -150,7 +150,7 @@ def laplace_route_integral(expr):
     >>> laplace_route_integral(parse("C(2,2,1) - 3"))
     pi*(-1 + zeta(5)/90)
     """
-    from ledger.expr.atoms import E, modular_atoms
+    from ledger.expr.atoms import E, Laplace, modular_atoms
     from ledger.mgf.laplace import known_laplace_equation
     from ledger.mgf.rankin_selberg import eisenstein_product_integral
 
@@ -162,6 +162,12 @@ def laplace_route_integral(expr):
         factors = _factor_list(monomial)
         if not factors:
             piece = sympy.pi / 3
+        elif len(factors) == 1 and isinstance(factors[0], Laplace):
+            # int_{F_L} Delta g = d/dL a_0(L): its L^0 term is pi c_1(g)
+            c1 = laurent_polynomial(factors[0].args[0]).coefficient(1)
+            if isinstance(c1, Value):
+                return None
+            piece = sympy.pi * c1
         elif len(factors) == 2 and all(isinstance(f, E) for f in factors):
             piece = eisenstein_product_integral(int(factors[0].args[0]), int(factors[1].args[0]))
         elif len(factors) == 1 and (equation := known_laplace_equation(factors[0])) is not None:
@@ -243,10 +249,8 @@ def quadrature_integral(expr, laurent: LaurentPolynomial, digits: int = 15,
 
 
 def _evaluator(expr) -> Callable:
-    try:
-        from ledger.mgf.evaluate import evaluate
-    except ModuleNotFoundError as missing:  # pragma: no cover - during development only
-        raise NotAvailableError("numerical evaluation is not available in this build") from missing
+    from ledger.mgf.evaluate import evaluate
+
     return lambda tau, digits: evaluate(expr, tau, digits)
 
 

@@ -72,10 +72,11 @@ def leading_coefficient(graph: Graph) -> Fraction:
 
 
 def graph_laurent(graph: Graph, digits: int = 30, job: Optional[Job] = None,
-                  values: Optional[Callable] = None):
+                  values: Optional[Callable] = None, coefficient_digits: int = COEFFICIENT_DIGITS):
     """The Laurent polynomial of a general graph (module docstring).
 
-    ``values(tau, digits) -> Value`` overrides the evaluator of the graph.
+    ``values(tau, digits) -> Value`` overrides the evaluator of the graph;
+    ``coefficient_digits`` is the precision aimed at for the lowest coefficient.
     """
     from ledger.mgf.laurent import LaurentPolynomial
 
@@ -85,8 +86,9 @@ def graph_laurent(graph: Graph, digits: int = 30, job: Optional[Job] = None,
     w = graph.weight
     powers = [w - j for j in range(1, 2 * w) if weight_basis(j).elements]
     leading = leading_coefficient(graph)
-    first = _fit(graph, powers, leading, _value_digits(w, 0), 0, values, job.part(0.0, 0.5))
-    second = _fit(graph, powers, leading, _value_digits(w, 15), 1, values, job.part(0.5, 1.0))
+    first = _fit(graph, powers, leading, _value_digits(w, coefficient_digits), 0, values, job.part(0.0, 0.5))
+    second = _fit(graph, powers, leading, _value_digits(w, coefficient_digits + 15), 1, values,
+                  job.part(0.5, 1.0))
     terms = {w: sympy.Rational(leading.numerator, leading.denominator)}
     for power in powers:
         terms[power] = _identified(first[power], second[power], w - power, digits)
@@ -101,12 +103,12 @@ def _graph_values(graph: Graph) -> Callable:
     return lambda tau, digits: evaluate(expr, tau, digits)
 
 
-def _value_digits(weight: int, extra: int) -> int:
-    """Digits of the values so that the y^(1-w) coefficient keeps COEFFICIENT_DIGITS."""
-    digits = COEFFICIENT_DIGITS + extra + 10
+def _value_digits(weight: int, wanted: int) -> int:
+    """Digits of the values so that the y^(1-w) coefficient keeps ``wanted`` digits."""
+    digits = wanted + 10
     for _ in range(5):  # y_min grows with the digits: iterate to a fixed point
         y_min = digits * log(10) / 2 + 5
-        digits = COEFFICIENT_DIGITS + extra + 10 + ceil((2 * weight - 1) * log(y_min, 10))
+        digits = wanted + 10 + ceil((2 * weight - 1) * log(y_min, 10))
     return digits
 
 

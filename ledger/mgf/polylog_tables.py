@@ -32,26 +32,40 @@ TERMS_MAX = 400
 WORST_RATIO = 0.75  # tables reach far enough for |t| up to this ratio
 
 
-@lru_cache(maxsize=32)
+BUCKET_BITS = 64
+
+
+@lru_cache(maxsize=64)
 def taylor_table(orders: tuple, bits: int, around_half: bool) -> tuple:
     """Packed coefficients c_n (n = 0, 1, ...) with Li_s = sum_n c_n t^n per slot s."""
     fp = FixedPoint(bits)
-    ctx = mpmath.MPContext()
-    ctx.prec = bits + 64
+    bucket = BUCKET_BITS * -(-(bits + 40) // BUCKET_BITS)
+    shift = bucket - bits
     count = min(int((bits + 40) * math.log(2) / -math.log(WORST_RATIO)) + 2, TERMS_MAX)
+    columns = [_order_coefficients(s, bucket, around_half) for s in orders]
+    return tuple(fp.pack([column[n] >> shift for column in columns]) for n in range(count))
+
+
+@lru_cache(maxsize=64)
+def _order_coefficients(s: int, bits: int, around_half: bool) -> tuple:
+    """The Taylor coefficients of one order s at ``bits`` fractional bits (enough
+    terms for every precision up to ``bits`` - 40)."""
+    fp = FixedPoint(bits)
+    ctx = mpmath.MPContext()
+    ctx.prec = bits + 24
+    count = min(int(bits * math.log(2) / -math.log(WORST_RATIO)) + 2, TERMS_MAX)
     radius = ctx.pi if around_half else 2 * ctx.pi
-    rows = []
+    scale = ctx.one  # radius^n / n!
+    out = []
     for n in range(count):
-        row = []
-        for s in orders:
-            order = s - n
-            if around_half:
-                eta = ctx.log(2) if order == 1 else (1 - ctx.mpf(2) ** (1 - order)) * ctx.zeta(order)
-                c = -eta / ctx.factorial(n)
-            elif n == s - 1:
-                c = ctx.harmonic(s - 1) / ctx.factorial(s - 1)
-            else:
-                c = ctx.zeta(order) / ctx.factorial(n)
-            row.append(fp.from_number(c * radius ** n))
-        rows.append(fp.pack(row))
-    return tuple(rows)
+        order = s - n
+        if around_half:
+            eta = ctx.log(2) if order == 1 else (1 - ctx.mpf(2) ** (1 - order)) * ctx.zeta(order)
+            c = -eta * scale
+        elif n == s - 1:
+            c = ctx.harmonic(s - 1) * scale
+        else:
+            c = ctx.zeta(order) * scale
+        out.append(fp.from_number(c))
+        scale = scale * radius / (n + 1)
+    return tuple(out)

@@ -31,6 +31,8 @@ from math import comb
 from ledger.mgf.fixedpoint import FixedPoint, mpz
 
 GUARD_BITS = 24
+BUCKET_BITS = 64
+RADIAL_KMAX = 6  # log powers covered by one construction (graphs with up to 6 edges)
 
 
 @dataclass(frozen=True)
@@ -83,9 +85,23 @@ def _float_root(n: int, i: int) -> float:
     return x
 
 
+def _bucket(bits: int) -> int:
+    """Rules are built at a multiple of BUCKET_BITS and shifted down, so that nearby
+    precisions share one construction."""
+    return BUCKET_BITS * -(-(bits + GUARD_BITS) // BUCKET_BITS)
+
+
 @lru_cache(maxsize=256)
 def gauss_legendre(n: int, bits: int) -> GaussRule:
     """The n-point Gauss-Legendre rule on [0, 1] at ``bits`` fractional bits."""
+    built = _gauss_legendre(n, _bucket(bits))
+    shift = built.fixed.bits - bits
+    return GaussRule(FixedPoint(bits), tuple(x >> shift for x in built.nodes),
+                     tuple(w >> shift for w in built.weights))
+
+
+@lru_cache(maxsize=256)
+def _gauss_legendre(n: int, bits: int) -> GaussRule:
     work = bits + GUARD_BITS
     one = mpz(1) << work
     nodes, weights = [], []
@@ -124,15 +140,24 @@ def _log_moment_numerators(n: int, kmax: int, extra: int) -> tuple:
     return tuple(moments)
 
 
-@lru_cache(maxsize=256)
+@lru_cache(maxsize=512)
 def radial_rule(n: int, kmax: int, bits: int) -> RadialRule:
     """The n-node product rule for s log^k(s) on [0, 1], k = 0..kmax."""
+    built = _radial_rule(n, max(kmax, RADIAL_KMAX), _bucket(bits))
+    shift = built.fixed.bits - bits
+    return RadialRule(FixedPoint(bits), tuple(s >> shift for s in built.nodes),
+                      tuple(v >> shift for v in built.log_nodes),
+                      tuple(tuple(w >> shift for w in row) for row in built.weights[:kmax + 1]))
+
+
+@lru_cache(maxsize=256)
+def _radial_rule(n: int, kmax: int, bits: int) -> RadialRule:
     fp = FixedPoint(bits)
     work = bits + GUARD_BITS
     # the alternating sums for the moments lose about 2n bits to cancellation
     extra = work + 2 * n + 16
     moments = _log_moment_numerators(n, kmax, extra)
-    gauss = gauss_legendre(n, work)
+    gauss = _gauss_legendre(n, work)
     one = mpz(1) << work
     weights = [[] for _ in range(kmax + 1)]
     for s, w in zip(gauss.nodes, gauss.weights):

@@ -31,7 +31,7 @@ sum_{k<s} 1/(2k-1) + zeta'(2s)/zeta(2s) - zeta'(2s-1)/zeta(2s-1).
 Route (a) of :mod:`ledger.mgf.integrate` checks these numerically.
 
 >>> print(eisenstein_square_integral(2))
-2*pi*(-1/2 + 90*zeta_prime(4)/pi**4 - zeta_prime(3)/zeta(3) + log(2))*zeta(3)/45
+2*pi*(-1/2 + zeta_prime(4)/zeta(4) - zeta_prime(3)/zeta(3) + log(2))*zeta(3)/45
 """
 
 from __future__ import annotations
@@ -62,7 +62,8 @@ def eisenstein_square_integral(s: int):
     log_coefficient = sympy.pi * (eisenstein_laurent(s) ** 2).coefficient(1)
     bracket = (sympy.harmonic(s - 1) / 2 + sympy.log(2)
                - sum(sympy.Rational(1, 2 * k - 1) for k in range(1, s))
-               + zeta_prime(2 * s) / sympy.zeta(2 * s) - zeta_prime(2 * s - 1) / sympy.zeta(2 * s - 1))
+               + zeta_prime(2 * s) / sympy.zeta(2 * s, evaluate=False)  # keep zeta'/zeta visible
+               - zeta_prime(2 * s - 1) / sympy.zeta(2 * s - 1))
     return sympy.factor_terms(sympy.expand(log_coefficient) * sympy.expand(bracket))
 
 

@@ -4,9 +4,9 @@ C(a1..ar)(tau) = sum over non-zero p_1 + ... + p_r = 0 of prod (tau2/pi)^a_i / |
 p = m tau + n.  Every momentum is kept in the box |m|, |n| <= L; the constrained
 sum is the value at 0 of the r-fold convolution of the box arrays, computed by
 zero-padded FFTs (numpy, float64; a padding of r L + 1 avoids wrap-around at 0).
-The truncation error is a sum of terms L^-k and L^-k log L (Euler-Maclaurin for
-the box sums, with logarithms from sub-sums that converge only just); power
-counting gives the leading k = 2 (a_i + a_j) - 2 for the two smallest weights.
+The truncation error is a sum of terms L^-k log^j L (Euler-Maclaurin for the
+box sums, with logarithms from nested sub-sums that converge only just, j <= r-2);
+power counting gives the leading k = 2 (a_i + a_j) - 2 for the two smallest weights.
 The sums at a geometric ladder of L are extrapolated by least squares in that
 ansatz; the error estimate is the change between the last two extrapolations.
 E_s (r = 2) is the same code.
@@ -49,14 +49,19 @@ def _leading_power(weights) -> int:
     return max(2, 2 * sum(smallest) - 2)
 
 
-def _extrapolate(sizes, values, leading: int, terms: int) -> float:
-    """Least-squares fit values = C + sum_k (c_k + d_k log L) / L^k, k >= leading."""
+def _log_powers(weights) -> int:
+    """Nested sub-sums that converge only logarithmically: up to log^(r-2) L."""
+    return max(1, len(weights) - 2)
+
+
+def _extrapolate(sizes, values, leading: int, logs: int, terms: int) -> float:
+    """Least-squares fit values = C + sum_k sum_j c_kj log^j(L) / L^k, k >= leading, j <= logs."""
     columns = [np.ones(len(sizes))]
     k = leading
     while len(columns) < terms:
-        columns.append(np.array([1.0 / s ** k for s in sizes]))
-        if len(columns) < terms:
-            columns.append(np.array([math.log(s) / s ** k for s in sizes]))
+        for j in range(logs + 1):
+            if len(columns) < terms:
+                columns.append(np.array([math.log(s) ** j / s ** k for s in sizes]))
         k += 1
     matrix = np.array(columns).T
     solution, *_ = np.linalg.lstsq(matrix, np.array(values), rcond=None)
@@ -68,7 +73,7 @@ def peer_dihedral(weights, tau: complex, target_digits: float = 12, max_size: in
     """(value, error estimate, CPU seconds): grow L until the extrapolations agree to
     ``target_digits`` digits, the box reaches ``max_size`` or the time runs out."""
     start = time.process_time()
-    leading = _leading_power(weights)
+    leading, logs = _leading_power(weights), _log_powers(weights)
     sizes, values = [], []
     size = 8
     best, error = float("nan"), float("inf")
@@ -78,7 +83,7 @@ def peer_dihedral(weights, tau: complex, target_digits: float = 12, max_size: in
         values.append(truncated_sum(weights, tau, size))
         terms = min(len(sizes) - 1, 7)
         if terms >= 3:
-            current = _extrapolate(sizes[-terms - 1:], values[-terms - 1:], leading, terms)
+            current = _extrapolate(sizes[-terms - 1:], values[-terms - 1:], leading, logs, terms)
             if previous is not None:
                 best, error = current, abs(current - previous)
                 if error <= 10.0 ** (-target_digits) * abs(current):

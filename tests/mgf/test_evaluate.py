@@ -75,15 +75,15 @@ def test_graph_atoms_use_the_reduced_tau_and_theta_atoms_the_given_one():
 
 def test_each_distinct_atom_is_evaluated_once(monkeypatch):
     calls = []
-    original = dihedral.dihedral_value
+    original = dihedral.dihedral_values
 
-    def counting(weights, tau, digits=30, job=None):
-        calls.append(weights)
-        return original(weights, tau, digits, job)
+    def counting(graphs, tau, digits=30, job=None):
+        calls.append(list(graphs))
+        return original(graphs, tau, digits, job)
 
-    monkeypatch.setattr(dihedral, "dihedral_value", counting)
-    evaluate(parse("C(1,1,1)^2 + 3*C(1,1,1) - C(1,1,1)*E(3)"), 1j, 12)
-    assert calls == [(1, 1, 1)]
+    monkeypatch.setattr(dihedral, "dihedral_values", counting)
+    evaluate(parse("C(1,1,1)^2 + 3*C(1,1,1) - C(1,1,1)*E(3) + C(2,1,1)"), 1j, 12)
+    assert calls == [[(1, 1, 1), (2, 1, 1)]]  # once, and all dihedral atoms in one pass
 
 
 def test_cancellation_is_recomputed_with_more_digits():

@@ -1,8 +1,8 @@
 """The identity finder: published identities found, absent ones reported as such.
 
 References: C(2,2,1) = 2/5 E(5) + zeta(5)/30 (D'Hoker, Green, Vanhove 2015,
-arXiv:1502.06698); C(1,1,1,1) = 24 C(2,1,1) - 18 E(4) + 3 E(2)^2 (D'Hoker,
-Kaidi 2016, arXiv:1608.04393; from memory); C(1,1,1) = E(3) + zeta(3) (D. Zagier).
+arXiv:1502.06698); C(1,1,1,1) = 24 C(2,1,1) - 18 E(4) + 3 E(2)^2 (D'Hoker, Green,
+Vanhove 2015; D'Hoker, Kaidi 2016, arXiv:1608.04393; from memory); C(1,1,1) = E(3) + zeta(3) (D. Zagier).
 Values come from ledger.mgf.evaluate (position-space evaluator, Fourier series of E_s).
 """
 

