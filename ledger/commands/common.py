@@ -9,7 +9,10 @@ from __future__ import annotations
 import json
 import sys
 
+import mpmath
+
 from ledger.errors import LedgerError
+from ledger.mgf.values import Value
 
 
 def print_json(payload: dict) -> None:
@@ -27,3 +30,15 @@ def parse_assignments(items: list[str]) -> dict:
             raise LedgerError(f"expected KEY=VALUE, got {item!r}")
         result[key.strip()] = value.strip()
     return result
+
+
+def decimal_text(value: Value, digits: int) -> str:
+    """The decimal string of a Value: ``digits`` significant digits, fewer if the error says so."""
+    shown = digits
+    if value.error:
+        shown = max(1, min(digits, int(value.correct_digits()) + 1))
+    return mpmath.nstr(value.value, shown, strip_zeros=False)
+
+
+def error_text(value: Value) -> str:
+    return mpmath.nstr(value.error, 3)

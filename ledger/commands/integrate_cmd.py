@@ -12,7 +12,7 @@ from __future__ import annotations
 import sympy
 
 from ledger.commands.common import print_json
-from ledger.commands.laurent_cmd import decimal_text, error_text
+from ledger.commands.common import decimal_text, error_text
 from ledger.mgf.values import Value
 
 

@@ -7,10 +7,9 @@ an inexact coefficient is a decimal and carries its "error".
 
 from __future__ import annotations
 
-import mpmath
 import sympy
 
-from ledger.commands.common import print_json
+from ledger.commands.common import decimal_text, error_text, print_json
 from ledger.mgf.values import Value
 
 
@@ -25,18 +24,6 @@ def register(subparsers) -> None:
                         help="precision of any inexact coefficient (default 30)")
     parser.add_argument("--json", action="store_true", help="print one JSON object")
     parser.set_defaults(run=run)
-
-
-def decimal_text(value: Value, digits: int) -> str:
-    """The decimal string of a Value: ``digits`` significant digits, fewer if the error says so."""
-    shown = digits
-    if value.error:
-        shown = max(1, min(digits, int(value.correct_digits()) + 1))
-    return mpmath.nstr(value.value, shown, strip_zeros=False)
-
-
-def error_text(value: Value) -> str:
-    return mpmath.nstr(value.error, 3)
 
 
 def compute(text: str, digits: int = 30, job=None) -> dict:

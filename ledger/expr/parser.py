@@ -230,7 +230,7 @@ class _Parser:
             token = self.current
             value = self.sum()
             if not value.is_Integer:
-                raise ExpressionError(f"expected an integer argument", token.column, self.text)
+                raise ExpressionError("expected an integer argument", token.column, self.text)
             return int(value)
         return self._argument_list(one)
 

@@ -76,6 +76,7 @@ def cycle_value(bundles, tau, digits: int = 20, job: Job | None = None,
     if isinstance(digits, bool) or not isinstance(digits, int) or not 1 <= digits <= 60:
         raise LedgerError(f"digits must be an integer between 1 and 60, got {digits!r}")
     job = ensure_job(job)
+    job.check()
     ctx = mpmath.MPContext()
     ctx.dps = digits + GUARD_DIGITS
     tau = ctx.mpc(tau)

@@ -32,7 +32,7 @@ from ledger.errors import ExpressionError, LedgerError, NotAvailableError
 from ledger.mgf.approx import export
 from ledger.mgf.jobs import Job, ensure_job
 from ledger.mgf.modular import to_fundamental_domain
-from ledger.mgf.values import Value
+from ledger.mgf.values import Value, number_text
 
 GUARD_DIGITS = 8
 MAX_RETRIES = 2
@@ -76,12 +76,7 @@ def value_text(value: Value, digits: int) -> str:
     >>> value_text(Value(mpmath.mpc(1.5, -0.25), mpmath.mpf(0), 5), 5)
     '1.5-0.25i'
     """
-    number = value.value
-    if isinstance(number, mpmath.mpc) and number.imag != 0:
-        real = mpmath.nstr(number.real, digits)
-        imag = mpmath.nstr(abs(number.imag), digits)
-        return f"{real}{'-' if number.imag < 0 else '+'}{imag}i"
-    return mpmath.nstr(mpmath.re(number) if isinstance(number, mpmath.mpc) else number, digits)
+    return number_text(value.value, digits)
 
 
 def _as_tau(tau):
@@ -98,17 +93,20 @@ def _as_tau(tau):
 
 
 def _atoms(expr) -> set:
-    names = GRAPH_FAMILY + THETA_FAMILY + ("Laplace",)
+    """The atoms to evaluate: everything outside a Laplace, and each Laplace as a whole
+    (its argument is evaluated by the Laplacian itself)."""
+    names = GRAPH_FAMILY + THETA_FAMILY
     found = set()
-    for node in sympy.preorder_traversal(expr):
-        if isinstance(node, sympy.Function) and type(node).__name__ in names:
+    pending = [expr]
+    while pending:
+        node = pending.pop()
+        if isinstance(node, sympy.Function) and type(node).__name__ == "Laplace":
             found.add(node)
-    # atoms inside a Laplace are evaluated by the Laplacian itself
-    inner = set()
-    for atom in found:
-        if type(atom).__name__ == "Laplace":
-            inner |= {a for a in _atoms(atom.args[0])}
-    return found - inner
+        elif isinstance(node, sympy.Function) and type(node).__name__ in names:
+            found.add(node)
+        else:
+            pending.extend(node.args)
+    return found
 
 
 def _atom_values(atoms, tau, digits, cache, ctx, job) -> dict:

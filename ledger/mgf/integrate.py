@@ -213,14 +213,14 @@ class _Level:
         digits per node; the Laguerre rule gains ~1 digit per node of the
         remainder, itself ~e^(-4 pi) of the integrand.
         """
-        outer = ceil(digits / 1.7) + 1
-        inner = ceil(outer / 2) + 1
+        outer = ceil(digits / 1.7)
+        inner = ceil(0.55 * outer)
         laguerre = max(6, digits - 6 + max(0, digits - 15) // 2)
         return cls(outer, inner, laguerre, digits)
 
     def refined(self) -> "_Level":
         """A level larger in every rule, so that the difference estimates our error."""
-        return _Level(self.outer + 3, self.inner + 2, self.laguerre + 4, self.digits + 4)
+        return _Level(self.outer + 2, self.inner + 1, self.laguerre + 2, self.digits + 2)
 
     def trapezoid_points(self, tau2) -> int:
         """N with e^(-2 pi N tau2) < 10^-(digits+3): the rule misses only modes +-N, 2N, ..."""
@@ -239,7 +239,8 @@ def quadrature_integral(expr, laurent: LaurentPolynomial, digits: int = 15,
     levels = (coarse_level, coarse_level.refined())
     estimates = []
     for index, level in enumerate(levels):
-        estimates.append(_integrate_level(level, laurent, values, digits + 4, ctx,
+        # the coarse level only estimates the error: its values need fewer guard digits
+        estimates.append(_integrate_level(level, laurent, values, digits + 1 + 2 * index, ctx,
                                            job.part(index / 2, (index + 1) / 2)))
     (coarse, _), (fine, propagated) = estimates
     tail, tail_error = tail_finite_part(laurent, ctx)
@@ -269,18 +270,18 @@ def _integrate_level(level: _Level, laurent, values, value_digits, ctx, job) -> 
         return ctx.re(ctx.convert(v.value)), ctx.convert(v.error)
 
     top = ctx.pi / 6
-    x_nodes, x_weights = gauss_legendre(level.outer, ctx)
-    y_nodes, y_weights = gauss_legendre(level.inner, ctx)
+    x_nodes, x_weights = _legendre_01(level.outer, ctx)
+    y_nodes, y_weights = _legendre_01(level.inner, ctx)
     bounded, bounded_error = ctx.zero, ctx.zero
     for x, wx in zip(x_nodes, x_weights):
-        phi = top * (x + 1) / 2
+        phi = top * x
         tau1, bottom = ctx.sin(phi), ctx.cos(phi)
-        span = (1 - bottom) / 2
+        span = 1 - bottom
         for y, wy in zip(y_nodes, y_weights):
-            tau2 = bottom + span * (y + 1)
+            tau2 = bottom + span * y
             value, err = f(tau1, tau2)
             # factor 2: tau1 -> -tau1; d tau1 = cos(phi) d phi
-            weight = 2 * (top / 2) * wx * bottom * span * wy / tau2 ** 2
+            weight = 2 * top * wx * bottom * span * wy / tau2 ** 2
             bounded += weight * value
             bounded_error += abs(weight) * err
     remainder, remainder_error = ctx.zero, ctx.zero
@@ -301,20 +302,27 @@ def _integrate_level(level: _Level, laurent, values, value_digits, ctx, job) -> 
     return bounded + remainder, bounded_error + remainder_error
 
 
-def gauss_legendre(n: int, ctx) -> tuple:
-    """Nodes and weights on [-1, 1] (Golub-Welsch).
+def _legendre_01(n: int, ctx) -> tuple:
+    """Gauss-Legendre nodes and weights on [0, 1] (Golub-Welsch).
 
     >>> ctx = mpmath.MPContext(); ctx.dps = 30
-    >>> x, w = gauss_legendre(5, ctx)
-    >>> abs(sum(wi * xi ** 8 for xi, wi in zip(x, w)) - ctx.mpf(2) / 9) < 1e-28
+    >>> x, w = _legendre_01(5, ctx)
+    >>> abs(sum(wi * xi ** 9 for xi, wi in zip(x, w)) - ctx.mpf(1) / 10) < 1e-28
     True
     """
     off = [ctx.mpf(k) / ctx.sqrt(4 * k * k - 1) for k in range(1, n)]
-    return _golub_welsch([ctx.zero] * n, off, ctx.mpf(2), ctx)
+    nodes, weights = _golub_welsch([ctx.zero] * n, off, ctx.mpf(2), ctx)
+    return [(x + 1) / 2 for x in nodes], [w / 2 for w in weights]
 
 
 def gauss_laguerre(n: int, ctx) -> tuple:
-    """Nodes and weights for int_0^inf e^-x g(x) dx (Golub-Welsch)."""
+    """Nodes and weights for int_0^inf e^-x g(x) dx (Golub-Welsch).
+
+    >>> ctx = mpmath.MPContext(); ctx.dps = 30
+    >>> x, w = gauss_laguerre(6, ctx)
+    >>> abs(sum(wi * xi ** 11 for xi, wi in zip(x, w)) - ctx.factorial(11)) < 1e-20
+    True
+    """
     return _golub_welsch([ctx.mpf(2 * k + 1) for k in range(n)],
                          [ctx.mpf(k) for k in range(1, n)], ctx.mpf(1), ctx)
 

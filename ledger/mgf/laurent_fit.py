@@ -31,13 +31,14 @@ from typing import Callable, Optional
 import mpmath
 import sympy
 
+from ledger.errors import LedgerError, NotAvailableError
 from ledger.mgf.approx import export
 from ledger.mgf.bernoulli import bernoulli_polynomial
 from ledger.mgf.dihedral_laurent import bernoulli_kernel_constant
 from ledger.mgf.graph import Graph
 from ledger.mgf.jobs import Job, ensure_job
 from ledger.mgf.values import Value
-from ledger.mgf.zeta_basis import SPARE_DIGITS, weight_basis
+from ledger.mgf.zeta_basis import SPARE_DIGITS, identify_in_basis, weight_basis
 
 COEFFICIENT_DIGITS = 45  # digits wanted of the lowest coefficient before identification
 
@@ -125,7 +126,15 @@ def _fit(graph, powers, leading, value_digits, variant, values, job) -> dict:
     for index, z in enumerate(nodes):
         job.report(index / len(nodes), f"Laurent fit: value {index + 1} of {len(nodes)}")
         y = 1 / z
-        v = values(ctx.mpc(0, y / ctx.pi), value_digits)
+        try:
+            v = values(ctx.mpc(0, y / ctx.pi), value_digits)
+        except NotAvailableError:
+            raise
+        except LedgerError as refused:
+            raise NotAvailableError(
+                f"the Laurent polynomial of {graph.text()} is fitted to values with {value_digits} digits "
+                f"at tau2 up to {mpmath.nstr(y_max / ctx.pi, 3)}, which the evaluator cannot give: {refused}"
+            ) from refused
         value, error = ctx.re(ctx.convert(v.value)), ctx.convert(v.error)
         rows.append([z ** (w - p) for p in powers])
         rhs.append(value / y ** w - ctx.mpf(leading.numerator) / leading.denominator)
@@ -154,8 +163,6 @@ def _chebyshev(n: int, low, high, variant: int, ctx) -> list:
 
 def _identified(first: tuple, second: tuple, weight: int, digits: int):
     """Exact coefficient when both fits support the same relation, else a Value."""
-    from ledger.mgf.zeta_basis import identify_in_basis
-
     basis = weight_basis(weight)
     (v1, e1), (v2, e2) = first, second
     estimates = iter([(v1, e1), (v2, e2)])

@@ -362,6 +362,7 @@ class ShellSums:
             self.sums.extend(gmpy2.mpc(0) for _ in range(shells - known))
         seen = set()
         total = (2 * shells + 1) ** self.loops
+        job.report(0.0, f"mixed route: shells {known + 1}..{shells}")
         for done, ls in enumerate(itertools.product(range(-shells, shells + 1), repeat=self.loops)):
             ms = tuple(sum(row[c] * ls[c] for c in range(self.loops)) for row in self.basis)
             k = max((abs(m) for m in ms), default=0)
@@ -372,7 +373,7 @@ class ShellSums:
             value = integrator.integral(ms)
             with integrator.gmp:
                 self.sums[k] += value * len(images)
-            if done % 500 == 0:
+            if len(seen) % 64 < len(images):
                 job.report(done / total, f"mixed route: shells {known + 1}..{shells}")
         return self.values()
 
@@ -495,6 +496,7 @@ def mixed_route_value(graph: Graph, tau, digits: int = 12, job: Job | None = Non
         raise LedgerError(f"digits must be an integer between 1 and 40, got {digits!r}")
     check_convergence(graph)
     job = ensure_job(job)
+    job.check()
     ctx = mpmath.MPContext()
     ctx.dps = digits + 20
     tau = ctx.mpc(tau)

@@ -64,6 +64,7 @@ def graph_value(graph: Graph, tau, digits: int = 20, job: Job | None = None) -> 
     if isinstance(digits, bool) or not isinstance(digits, int) or not 1 <= digits <= 60:
         raise LedgerError(f"digits must be an integer between 1 and 60, got {digits!r}")
     job = ensure_job(job)
+    job.check()
     reduction = reduce_graph(graph)
     if reduction.zero:
         return Value.exact(mpmath.mpf(0), digits)

@@ -26,7 +26,6 @@ True
 
 from __future__ import annotations
 
-from fractions import Fraction
 
 import mpmath
 
@@ -52,7 +51,7 @@ from ledger.mgf.values import Value
 __all__ = [
     "jacobi_theta", "dedekind_eta", "theta1_prime", "spin_green", "scalar_green",
     "twisted_eisenstein", "k3_elliptic_genus", "theta_atom_value", "theta_atom_laurent",
-    "format_complex", "spin_green_approx", "EVEN_SPIN_STRUCTURES", "check_spin_structure",
+    "spin_green_approx", "EVEN_SPIN_STRUCTURES", "check_spin_structure",
 ]
 
 EVEN_SPIN_STRUCTURES = (2, 3, 4)
@@ -160,18 +159,6 @@ def theta_atom_laurent(atom) -> dict:
         return twisted_eisenstein_laurent(args[0], args[1], args[2])
     raise LedgerError(f"{name} has no Laurent polynomial in y = pi tau2 "
                       "(it is holomorphic in tau, not a function of tau2 alone)")
-
-
-def format_complex(value, digits: int) -> str:
-    """Text 'a+bi' / 'a-bi' (each part to ``digits`` significant digits) for JSON.
-
-    >>> format_complex(mpmath.mpc(1.5, -0.25), 5)
-    '1.5-0.25i'
-    """
-    z = mpmath.mpc(value)
-    real = mpmath.nstr(z.real, digits)
-    imag = mpmath.nstr(abs(z.imag), digits)
-    return f"{real}{'-' if z.imag < 0 else '+'}{imag}i"
 
 
 def _torus_point(alpha, beta, tau, digits: int):

@@ -34,7 +34,6 @@ from __future__ import annotations
 from fractions import Fraction
 from math import factorial
 
-import mpmath
 import sympy
 
 from ledger.errors import DivergentGraphError, LedgerError

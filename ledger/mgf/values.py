@@ -89,6 +89,19 @@ class Value:
         return float(mpmath.log10(size / self.error))
 
 
+def number_text(number, digits: int) -> str:
+    """Decimal text, ``digits`` significant digits; complex as 'a+bi' / 'a-bi'.
+
+    >>> number_text(mpmath.mpc(1.5, -0.25), 5)
+    '1.5-0.25i'
+    """
+    if isinstance(number, mpmath.mpc) and number.imag != 0:
+        real = mpmath.nstr(number.real, digits)
+        imag = mpmath.nstr(abs(number.imag), digits)
+        return f"{real}{'-' if number.imag < 0 else '+'}{imag}i"
+    return mpmath.nstr(mpmath.re(number) if isinstance(number, mpmath.mpc) else number, digits)
+
+
 def _bits(x) -> int:
     raw = getattr(x, "_mpf_", None)
     if raw is not None:

@@ -13,7 +13,6 @@ from ledger.mgf.laplace import (
     LAPLACE_EQUATIONS, central_difference_weights, known_laplace_equation, numerical_laplacian,
 )
 from ledger.mgf.laurent import laurent_polynomial
-from ledger.mgf.values import Value
 
 TAUS = [mpmath.mpc(complex(t)) for t in ("0.27+1.31j", "-0.41+0.93j", "0.05+2.6j")]
 
