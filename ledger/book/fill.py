@@ -27,7 +27,7 @@ from dataclasses import dataclass, field
 
 from ledger import ENGINE_VERSION
 from ledger.book.model import Background, Provenance
-from ledger.errors import ConventionError
+from ledger.errors import ConventionError, NotAvailableError
 from ledger.mgf.jobs import ensure_job
 
 REFERENCE_TAUS = ("i", "0.5+0.9i", "0.13+1.72i")
@@ -66,23 +66,29 @@ def compute_derived(coefficient: str, job=None, taus=REFERENCE_TAUS) -> dict:
     They are computed for the coefficient after the published identities (the same
     function, written in atoms whose Laplace equations and closed forms are known).
     """
-    from ledger.commands import eval_cmd, integrate_cmd, laurent_cmd
-
     from ledger.amplitudes.identities import apply_identities
+    from ledger.commands import eval_cmd, integrate_cmd, laurent_cmd
     from ledger.expr import parse, to_text
 
     job = ensure_job(job)
     steps = 2 + len(taus)
     coefficient = to_text(apply_identities(parse(coefficient)))  # same function, cheaper atoms
-    laurent = laurent_cmd.compute(coefficient, VALUE_DIGITS, job.part(0, 1 / steps))
-    derived = {"laurent": {"variable": "y", "terms": laurent["terms"], "exact": laurent["exact"],
-                           "digits": VALUE_DIGITS, "engine": ENGINE_VERSION}}
-    integral = integrate_cmd.compute(coefficient, INTEGRAL_DIGITS, "auto", job.part(1 / steps, 2 / steps))
-    derived["integral"] = {
-        "value": integral["value"], "exact": integral["value"] if integral["exact"] else "",
-        "decimal": integral["decimal"], "log_coefficient": integral["log_coefficient"],
-        "divergent_terms": integral["divergent_terms"], "error": integral["error"],
-        "digits": INTEGRAL_DIGITS, "route": integral["route"], "engine": ENGINE_VERSION}
+    derived, missing = {}, []
+    try:
+        laurent = laurent_cmd.compute(coefficient, VALUE_DIGITS, job.part(0, 1 / steps))
+        derived["laurent"] = {"variable": "y", "terms": laurent["terms"], "exact": laurent["exact"],
+                              "digits": VALUE_DIGITS, "engine": ENGINE_VERSION}
+        integral = integrate_cmd.compute(coefficient, INTEGRAL_DIGITS, "auto",
+                                         job.part(1 / steps, 2 / steps))
+        derived["integral"] = {
+            "value": integral["value"], "exact": integral["value"] if integral["exact"] else "",
+            "decimal": integral["decimal"], "log_coefficient": integral["log_coefficient"],
+            "divergent_terms": integral["divergent_terms"], "error": integral["error"],
+            "digits": INTEGRAL_DIGITS, "route": integral["route"], "engine": ENGINE_VERSION}
+    except NotAvailableError as reason:
+        for what in ("laurent", "integral"):
+            if what not in derived:
+                missing.append({"what": what, "reason": str(reason), "engine": ENGINE_VERSION})
     values = []
     for i, tau in enumerate(taus):
         part = job.part((2 + i) / steps, (3 + i) / steps)
@@ -90,6 +96,8 @@ def compute_derived(coefficient: str, job=None, taus=REFERENCE_TAUS) -> dict:
         values.append({"tau": result["tau"], "value": result["value"], "error": result["error"],
                        "digits": result["digits"], "engine": ENGINE_VERSION})
     derived["values"] = values
+    if missing:
+        derived["missing"] = missing
     return derived
 
 
@@ -189,7 +197,8 @@ def merge_expansion(project, payload: dict, derive: bool = True, job=None) -> di
 def _needs_derived(entry) -> bool:
     engines = {item.get("engine") for key in ("laurent", "integral") if isinstance(
         item := entry.derived.get(key), dict)}
-    engines |= {v.get("engine") for v in entry.derived.get("values", []) if isinstance(v, dict)}
+    engines |= {v.get("engine") for key in ("values", "missing")
+                for v in entry.derived.get(key, []) if isinstance(v, dict)}
     return not entry.derived or engines != {ENGINE_VERSION}
 
 

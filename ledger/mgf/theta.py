@@ -26,6 +26,7 @@ True
 
 from __future__ import annotations
 
+from fractions import Fraction
 
 import mpmath
 

@@ -34,6 +34,7 @@ from __future__ import annotations
 from fractions import Fraction
 from math import factorial
 
+import mpmath
 import sympy
 
 from ledger.errors import DivergentGraphError, LedgerError
