@@ -89,6 +89,9 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         _fail("interrupted")
         return 130
+    except BrokenPipeError:  # the reader (e.g. head) went away: not an error of ours
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return EXIT_OK
     except Exception as error:  # a bug: still one line unless debugging
         if os.environ.get("ALPHA_LEDGER_DEBUG"):
             raise

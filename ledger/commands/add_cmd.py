@@ -2,9 +2,11 @@
 
 from __future__ import annotations
 
+import sys
+
 from ledger import ENGINE_VERSION
 from ledger.amplitudes.operators import structures_of_weight
-from ledger.book import Project, Provenance, structure_label
+from ledger.book import Project, Provenance, structure_exponents, structure_label
 from ledger.commands.common import print_json
 from ledger.errors import LedgerError
 
@@ -43,6 +45,11 @@ def run(args) -> int:
                               f"give --structure {labels}")
         structure = structure_label(*options[0])
     coefficient = to_text(parse(args.expr))
+    existing = project.find(args.background, args.genus, args.operator,
+                            structure_exponents(structure))
+    if existing is not None:  # allowed (a second source), but say so
+        print(f"alpha-ledger: note: entry {existing.id} already holds {args.background} genus "
+              f"{args.genus} {args.operator} {structure}; added a second one", file=sys.stderr)
     if args.source:
         arxiv, _, equation = args.source.partition(":")
         provenance = Provenance("reference", "", arxiv.strip(), equation.strip())
