@@ -171,7 +171,7 @@ def _fit_free_parameters(particular, nullspace, exprs, value, digits, job):
             for col in range(nullspace.cols):
                 columns[col] += weight * sum(ctx.mpf(sympy.Rational(n).p) / sympy.Rational(n).q * v
                                              for n, v in zip(nullspace.col(col), point[1:]))
-        with ctx.workdps(digits - 5):
+        with ctx.workdps(max(digits - 5, 16)):  # mpmath's PSLQ needs at least 53 bits
             relation = ctx.pslq([residual] + columns, maxcoeff=10 ** max(3, (digits - 10) // (nullspace.cols + 1)),
                                 maxsteps=10 ** 5)
         if relation is None or relation[0] == 0:
