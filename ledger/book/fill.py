@@ -81,8 +81,8 @@ def compute_derived(coefficient: str, job=None, taus=REFERENCE_TAUS) -> dict:
         integral = integrate_cmd.compute(coefficient, INTEGRAL_DIGITS, "auto",
                                          job.part(1 / steps, 2 / steps))
         derived["integral"] = {
-            "value": integral["value"], "exact": integral["value"] if integral["exact"] else "",
-            "decimal": integral["decimal"], "log_coefficient": integral["log_coefficient"],
+            "value": integral["decimal"], "exact": integral["value"] if integral["exact"] else "",
+            "log_coefficient": integral["log_coefficient"],
             "divergent_terms": integral["divergent_terms"], "error": integral["error"],
             "digits": INTEGRAL_DIGITS, "route": integral["route"], "engine": ENGINE_VERSION}
     except NotAvailableError as reason:

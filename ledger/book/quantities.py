@@ -23,10 +23,14 @@ import mpmath
 import sympy
 
 from ledger.errors import LedgerError
+from ledger.mgf.rankin_selberg import zeta_prime
+from ledger.mgf.zeta_basis import zeta_sv
 
 _SYMPY_TEXT = re.compile(r"^[0-9A-Za-z_+\-*/^(). ]*$")
 _ALLOWED_NAMES = {"pi": sympy.pi, "zeta": sympy.zeta, "log": sympy.log, "sqrt": sympy.sqrt,
-                  "Rational": sympy.Rational, "Integer": sympy.Integer, "Float": sympy.Float}
+                  "Rational": sympy.Rational, "Integer": sympy.Integer, "Float": sympy.Float,
+                  # constants the engine writes: zeta'(n) in integrals, zeta_sv in Laurent terms
+                  "zeta_prime": zeta_prime, "zeta_sv": zeta_sv}
 _COMPLEX = re.compile(r"^(?P<re>[+-]?[0-9.]+(?:[eE][+-]?\d+)?)?(?P<im>[+-]?[0-9.]*(?:[eE][+-]?\d+)?)[ij]$")
 
 
@@ -55,7 +59,7 @@ def _parse_sympy_text(text: str, what: str):
     exponent_marks = {name for name in names if re.fullmatch(r"[eE]\d*", name)}
     if not _SYMPY_TEXT.match(text) or names - set(_ALLOWED_NAMES) - exponent_marks:
         raise LedgerError(f"{what} {text!r} is not an exact constant "
-                          "(use rationals, pi, zeta(n), log, sqrt)")
+                          "(use rationals, pi, zeta(n), zeta_prime(n), zeta_sv(...), log, sqrt)")
     from sympy.parsing.sympy_parser import convert_xor, parse_expr, standard_transformations
 
     try:
@@ -164,3 +168,15 @@ def scale_number(value_text, error_text, digits: int, factor, ctx: mpmath.MPCont
     text = format_number(product, significant, ctx)
     rounding = abs(product) * ctx.mpf(10) ** (1 - significant) if product != 0 else ctx.mpf(0)
     return text, format_error(error * abs(number) + rounding, ctx)
+
+
+_DECIMAL = re.compile(r"^\s*[+-]?(\d+\.\d*|\.\d+|\d+)([eE][+-]?\d+)?\s*$")
+
+
+def looks_exact(text) -> bool:
+    """Exact text ('4*pi*zeta(3)/45', '1/3') rather than a decimal ('0.25', '1e-3').
+
+    >>> looks_exact("4*pi*zeta(3)/45"), looks_exact("7"), looks_exact("1.25e-3")
+    (True, True, False)
+    """
+    return isinstance(text, str) and not (_DECIMAL.match(text) and any(m in text for m in ".eE"))

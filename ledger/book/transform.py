@@ -53,7 +53,7 @@ from ledger.book.conventions import (
     validate_conventions,
 )
 from ledger.book.quantities import (
-    exact_text, parse_exact, record_digits, scale_number, working_context,
+    exact_text, looks_exact, parse_exact, record_digits, scale_number, working_context,
 )
 from ledger.errors import ConventionError, LedgerError
 from ledger.expr import atoms
@@ -151,10 +151,6 @@ def _scale_text(text, factor, exact: bool, digits: int, what: str) -> str:
     return value
 
 
-def _looks_exact(text) -> bool:
-    return isinstance(text, str) and not any(mark in text for mark in ".eE")
-
-
 def convert_laurent(laurent: dict, source: dict, target: dict, factor=1) -> dict:
     """A Laurent record {"variable", "terms": [{"power", "coefficient"}], "exact", "digits", ...}
     in the target's variable, every term multiplied by ``factor``."""
@@ -169,7 +165,7 @@ def convert_laurent(laurent: dict, source: dict, target: dict, factor=1) -> dict
     for term in laurent["terms"]:
         power = _integer(term.get("power"), "laurent: power")
         coefficient = _scale_text(term.get("coefficient"), factor * ratio**power,
-                                  exact or _looks_exact(term.get("coefficient")), digits,
+                                  exact or looks_exact(term.get("coefficient")), digits,
                                   "laurent: coefficient")
         terms.append({**term, "power": power, "coefficient": coefficient})
     return {**laurent, "variable": target["laurent_variable"], "terms": terms}
@@ -212,7 +208,7 @@ def convert_integral(integral: dict, source: dict, target: dict, factor=1) -> di
         result["exact"] = _scale_text(integral["exact"], total, True, digits, "integral: exact")
     if integral.get("log_coefficient") not in (None, ""):
         text = str(integral["log_coefficient"])
-        result["log_coefficient"] = _scale_text(text, total, _looks_exact(text), digits,
+        result["log_coefficient"] = _scale_text(text, total, looks_exact(text), digits,
                                                 "integral: log_coefficient")
     if integral.get("divergent_terms"):
         result["divergent_terms"] = [_scale_term(term, total, digits)
@@ -224,7 +220,7 @@ def _scale_term(term, factor, digits: int):
     """One divergent term, {power, coefficient} or [power, coefficient], times ``factor``."""
     if isinstance(term, dict) and "coefficient" in term:
         text = str(term["coefficient"])
-        return {**term, "coefficient": _scale_text(text, factor, _looks_exact(text), digits,
+        return {**term, "coefficient": _scale_text(text, factor, looks_exact(text), digits,
                                                    "integral: divergent term")}
     if isinstance(term, (list, tuple)) and len(term) == 2:
         return [term[0], _scale_term({"coefficient": term[1]}, factor, digits)["coefficient"]]

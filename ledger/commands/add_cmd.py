@@ -47,9 +47,6 @@ def run(args) -> int:
     coefficient = to_text(parse(args.expr))
     existing = project.find(args.background, args.genus, args.operator,
                             structure_exponents(structure))
-    if existing is not None:  # allowed (a second source), but say so
-        print(f"alpha-ledger: note: entry {existing.id} already holds {args.background} genus "
-              f"{args.genus} {args.operator} {structure}; added a second one", file=sys.stderr)
     if args.source:
         arxiv, _, equation = args.source.partition(":")
         provenance = Provenance("reference", "", arxiv.strip(), equation.strip())
@@ -59,6 +56,9 @@ def run(args) -> int:
                               operator=args.operator, structure=structure,
                               coefficient=coefficient, notes=args.note, provenance=provenance)
     project.save()
+    if existing is not None:  # allowed (a second source), but say so
+        print(f"alpha-ledger: note: entry {existing.id} already holds {args.background} genus "
+              f"{args.genus} {args.operator} {structure}; added {entry.id} beside it", file=sys.stderr)
     if args.json:
         print_json({"id": entry.id, "project": str(project.path)})
     else:

@@ -21,7 +21,7 @@ import mpmath
 import sympy
 
 from ledger.book.quantities import (
-    DEFAULT_DIGITS, evaluate_exact, parse_exact, parse_number, record_digits, working_context,
+    DEFAULT_DIGITS, evaluate_exact, looks_exact, parse_exact, parse_number, record_digits, working_context,
 )
 from ledger.book.transform import convert_laurent, engine_form
 from ledger.expr import atoms, modular_atoms
@@ -173,7 +173,7 @@ def compare_laurent(first: dict, second: dict) -> ItemComparison:
 
 
 def _laurent_number(text, exact: bool, digits: int) -> Number:
-    if exact or not any(mark in str(text) for mark in ".eE"):
+    if exact or looks_exact(str(text)):
         return number_from(None, None, digits, str(text))
     return number_from(str(text), "0", digits)
 

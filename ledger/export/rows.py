@@ -15,7 +15,9 @@ from dataclasses import dataclass
 import sympy
 
 from ledger.book.model import operator_weight, structure_exponents
-from ledger.book.quantities import parse_exact, parse_number, record_digits, working_context
+from ledger.book.quantities import (
+    looks_exact, parse_exact, parse_number, record_digits, working_context,
+)
 from ledger.book.transform import convert_laurent
 from ledger.errors import LedgerError
 
@@ -130,7 +132,7 @@ def _power(term) -> int:
 def _constant(text, exact: bool, digits: int):
     """Exact text (or text without a decimal point or exponent) -> sympy; else a decimal."""
     text = str(text)
-    if exact or not any(mark in text for mark in ".eE"):
+    if exact or looks_exact(text):
         return parse_exact(text, "value")
     return _decimal(text, digits)
 

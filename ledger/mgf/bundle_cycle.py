@@ -258,35 +258,44 @@ def _abel_plana(g, start: int, length, ctx):
     """(sum_{n >= start} g(n), error estimate) for g analytic and decaying like |t|^-4 or
     faster in Re t >= start, by the Abel-Plana formula
 
-        sum = int_start^oo g + g(start)/2 + i int_0^oo (g(start+iy) - g(start-iy)) / (e^(2 pi y) - 1) dy.
+        sum = int_start^oo g + g(start)/2
+              + i int_0^oo (g(start+iy) - g(start-iy)) / (e^(2 pi y) - 1) dy.
 
     The first integral by the trapezoid rule after t = start + length exp(pi/2 sinh v)
     (it copes with the logarithms in g at infinity), steps 1/8 and 1/6 for the error;
-    the second by Gauss-Legendre panels on [0, 9] (the rest is below e^(-18 pi)),
-    two rule sizes for the error."""
+    the second by Gauss-Legendre on geometric panels (two rule sizes for the error);
+    both ranges cover the working precision."""
     start = ctx.mpf(start)
+    reach = ctx.dps * math.log(10) + 10          # decay (in e-folds) that must be covered
+    low = -math.asinh(2 * reach / math.pi)       # e^(pi/2 sinh v) below e^-reach
+    high = math.asinh(2 * reach / (3 * math.pi))  # g ~ t^-4 or faster: t^-3 below e^-reach
     integrals = []
     for step in (ctx.mpf(1) / 8, ctx.mpf(1) / 6):
         total = ctx.zero
-        for k in range(int(-4.5 / step), int(3 / step) + 1):   # v in [-4.5, 3]
+        for k in range(int(low / step), int(high / step) + 2):
             v = k * step
             e = ctx.exp(ctx.pi / 2 * ctx.sinh(v))
             total += g(start + length * e) * length * e * ctx.pi / 2 * ctx.cosh(v)
         integrals.append(total * step)
     fine, coarse = integrals
+    top = reach / (2 * math.pi)                  # e^(-2 pi y) below e^-reach beyond
+    panels = [(0, 1)]
+    while panels[-1][1] < top:   # not beyond top: the series grows towards its singularities
+        panels.append((panels[-1][1], min(2 * panels[-1][1] + 1, top)))
     corrections = []
     for nodes in (ABEL_PLANA_NODES, (2 * ABEL_PLANA_NODES) // 3):
         xs, ws = gauss_nodes(nodes, ctx)
         correction = ctx.zero
-        for low, high in ((0, 1), (1, 3), (3, 9)):
+        for a, b in panels:
             for x, w in zip(xs, ws):
-                y = low + (high - low) * x
-                correction += (high - low) * w * (g(start + 1j * y) - g(start - 1j * y)) \
+                y = a + (b - a) * x
+                correction += (b - a) * w * (g(start + 1j * y) - g(start - 1j * y)) \
                     / ctx.expm1(2 * ctx.pi * y)
         corrections.append(correction)
     g0 = g(start)
     value = fine + g0 / 2 + 1j * corrections[0]
-    error = abs(fine - coarse) + abs(corrections[0] - corrections[1]) + abs(g0) * ctx.exp(-18 * ctx.pi)
+    error = (abs(fine - coarse) + abs(corrections[0] - corrections[1])
+             + abs(g0) * ctx.exp(-reach) * 10)
     return value, error
 
 
@@ -294,36 +303,39 @@ def _far_rows(series, tau, start: int, ctx):
     """sum over m >= start, all n, of the series at p = m tau + n, by Poisson in n (exact up to
     exp(-2 pi m tau2)): sum_n f(m tau + n) = m int f(m (tau + s)) ds, then Hurwitz zeta in m."""
     c0 = log_constant(tau, ctx)
+    top = max(i for _, _, i in series)
+    integrals: dict = {}
+    zetas: dict = {}
     total = ctx.zero
-    cache: dict = {}
     for (a, b, i), c in series.items():
         sigma = a + b - 1
         if sigma <= 1:
             raise LedgerError("the product series does not converge over the rows")
+        if (a, b) not in integrals:
+            integrals[(a, b)] = _row_integrals(a, b, top, tau, ctx)
         # int (tau+s)^-a (taubar+s)^-b (c0 + 2 log m + log|tau+s|^2)^i ds, summed over m >= start
         for r in range(i + 1):
-            key = (a, b, r)
-            if key not in cache:
-                cache[key] = _row_integral(a, b, r, tau, ctx)
-            j = cache[key]
             for t in range(i - r + 1):
-                coefficient = (math.comb(i, r) * math.comb(i - r, t) * c0 ** (i - r - t) * 2 ** t)
-                zeta_sum = (-1) ** t * ctx.zeta(sigma, start, derivative=t)
-                total += c * coefficient * j * zeta_sum
+                if (sigma, t) not in zetas:
+                    zetas[(sigma, t)] = (-1) ** t * ctx.zeta(sigma, start, derivative=t)
+                coefficient = math.comb(i, r) * math.comb(i - r, t) * c0 ** (i - r - t) * 2 ** t
+                total += c * coefficient * integrals[(a, b)][r] * zetas[(sigma, t)]
     return total
 
 
-def _row_integral(a: int, b: int, r: int, tau, ctx):
-    """int_R (tau+s)^-a (taubar+s)^-b log^r|tau+s|^2 ds = (-d/de)^r J(a+e, b+e) at e = 0,
+def _row_integrals(a: int, b: int, top: int, tau, ctx) -> list:
+    """[int_R (tau+s)^-a (taubar+s)^-b log^r|tau+s|^2 ds for r = 0..top], i.e. the
+    derivatives (-d/de)^r J(a+e, b+e) at e = 0 of
 
-    J(alpha, beta) = 2 pi e^(i pi (beta-alpha)/2) Gamma(alpha+beta-1) / (Gamma(alpha) Gamma(beta) (2 tau2)^(alpha+beta-1))."""
+    J(alpha, beta) = 2 pi e^(i pi (beta-alpha)/2) Gamma(alpha+beta-1)
+                     / (Gamma(alpha) Gamma(beta) (2 tau2)^(alpha+beta-1))."""
     tau2 = tau.imag
 
-    def log_j(e):
-        return (ctx.log(2 * ctx.pi) + 1j * ctx.pi * (b - a) / 2 + ctx.loggamma(a + b - 1 + 2 * e)
-                - ctx.loggamma(a + e) - ctx.loggamma(b + e) - (a + b - 1 + 2 * e) * ctx.log(2 * tau2))
+    def j(e):
+        return ctx.exp(ctx.log(2 * ctx.pi) + 1j * ctx.pi * (b - a) / 2
+                       + ctx.loggamma(a + b - 1 + 2 * e) - ctx.loggamma(a + e) - ctx.loggamma(b + e)
+                       - (a + b - 1 + 2 * e) * ctx.log(2 * tau2))
 
-    if r == 0:
-        return ctx.exp(log_j(0))
-    derivatives = ctx.diffs(lambda e: ctx.exp(log_j(e)), 0, r)
-    return (-1) ** r * list(derivatives)[r]
+    if top == 0:
+        return [j(0)]
+    return [(-1) ** r * d for r, d in enumerate(ctx.diffs(j, 0, top))]

@@ -150,7 +150,8 @@ def fourier_coefficients(bundles, tau, points, bits: int, max_zeta, level: int =
     height = min(tau2 / 2, ctx.mpf(STRIP_HEIGHT))
     panels = _angular_panels(height, max_zeta, bits, level, ctx)
     inner_order = max(len(bundle) for bundle in bundles)
-    inner = radial_rule(_panel_nodes(bits, level, max_zeta * INNER_RADIUS * 0.75), inner_order, bits)
+    inner_nodes = _panel_nodes(bits, level, max_zeta * INNER_RADIUS * 0.75)
+    inner = radial_rule(inner_nodes, inner_order, bits)
     radial_panels = _radial_panels(max_zeta, bits, level, ctx)
     total_rays = sum(len(nodes) for _, _, _, _, nodes, _ in panels)
     done = 0
@@ -236,7 +237,8 @@ def _radial_panels(max_zeta, bits, level, ctx):
     reach = ctx.mpf(3) / 4   # the longest ray: the corner of the strip
     while start < 1:
         stop = min(2 * start, ctx.one)
-        nodes, weights = gauss_nodes(_panel_nodes(bits, level, max_zeta * reach * (stop - start)), ctx)
+        count = _panel_nodes(bits, level, max_zeta * reach * (stop - start))
+        nodes, weights = gauss_nodes(count, ctx)
         out.extend((start + (stop - start) * t, (stop - start) * w) for t, w in zip(nodes, weights))
         start = stop
     return out

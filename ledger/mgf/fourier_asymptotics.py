@@ -53,8 +53,10 @@ def _series_exp(a: list, n: int, ctx) -> list:
 
 
 def _transform_prefactor(n: int, ctx) -> list:
-    """Taylor coefficients at s = 0 of pi 4^(s+1) Gamma(s+1)/Gamma(-s) = -4 pi s 4^s Gamma(1+s)/Gamma(1-s)."""
-    exponent = [ctx.zero] * n   # log(4^s Gamma(1+s)/Gamma(1-s)) = s log 4 - 2 gamma s - 2 sum_odd zeta(k) s^k / k
+    """Taylor coefficients at s = 0 of pi 4^(s+1) Gamma(s+1)/Gamma(-s)
+    = -4 pi s 4^s Gamma(1+s)/Gamma(1-s), from
+    log(4^s Gamma(1+s)/Gamma(1-s)) = s log 4 - 2 gamma s - 2 sum_(k odd >= 3) zeta(k) s^k / k."""
+    exponent = [ctx.zero] * n
     if n > 1:
         exponent[1] = ctx.log(4) - 2 * ctx.euler
     for k in range(3, n, 2):
@@ -137,12 +139,3 @@ def evaluate(series: Series, p, pbar, tau, ctx):
             powers_q[b] = inv_q ** b
         total += c * powers_p[a] * powers_q[b] * lam ** i
     return total
-
-
-def order_magnitudes(series: Series, radius, ctx) -> dict:
-    """{a + b: max |c| radius^-(a+b)}: the size of each order at |p| = radius (log factor left out)."""
-    out: dict = {}
-    for (a, b, i), c in series.items():
-        size = abs(c) * ctx.mpf(radius) ** (-(a + b))
-        out[a + b] = max(out.get(a + b, 0), size)
-    return out

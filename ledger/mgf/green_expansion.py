@@ -12,7 +12,8 @@ degree j + k <= ``degree``.  The coefficients come from the closed form of
 v = Im z / tau2 = (z - zbar) / (2 i tau2), lambda = 4 pi tau2, x0 = exp(2 pi i z):
 
     G_a = (-1)^(a+1) lambda^a B_2a(v)/(2a)!
-          + Re sum_j kappa_aj [ sum_k>=0 (v+k)^j Li_s(x0 q^k) + sum_k>=0 (1-v+k)^j Li_s(q^(k+1)/x0) ],
+          + Re sum_j kappa_aj [ sum_k>=0 (v+k)^j Li_s(x0 q^k)
+                                + sum_k>=0 (1-v+k)^j Li_s(q^(k+1)/x0) ],
 
 s = 2a-1-j.  Every Li_s(c e^(+-2 pi i z)) with |c| < 1 is expanded by
 d/dz Li_s = +-2 pi i Li_(s-1); the singular Li_s(x0) by Jonquiere's expansion
@@ -29,7 +30,8 @@ product prod_i G_(a_i) = sum_l L^l A_l(z): see :func:`bundle_expansion`.
 >>> log_part
 {(0, 0): mpf('-1.0')}
 >>> z = ctx.mpc("0.1", "0.05")   # Kronecker: G_1 = -log|theta_1(z)/eta|^2 + 2 pi (Im z)^2/tau2
->>> theta = ctx.jtheta(1, ctx.pi * z, ctx.exp(-ctx.pi)); eta = ctx.exp(-ctx.pi / 12) * ctx.qp(ctx.exp(-2 * ctx.pi))
+>>> theta = ctx.jtheta(1, ctx.pi * z, ctx.exp(-ctx.pi))
+>>> eta = ctx.exp(-ctx.pi / 12) * ctx.qp(ctx.exp(-2 * ctx.pi))
 >>> exact = -ctx.log(abs(theta / eta) ** 2) + 2 * ctx.pi * z.imag ** 2
 >>> abs(evaluate(regular, z, ctx) - ctx.log(abs(z) ** 2) - exact) < 1e-10
 True
@@ -83,7 +85,7 @@ def _power(p: Poly, n: int, degree: int, ctx) -> Poly:
 
 
 def _real_part(p: Poly, ctx) -> Poly:
-    """Polynomial of Re f for the polynomial p of f, with real-valued coefficients where possible."""
+    """The polynomial of Re f, given the polynomial p of f."""
     both = poly_add(p, poly_conjugate(p, ctx))
     return {key: c / 2 for key, c in both.items()}
 
@@ -155,7 +157,8 @@ def _green_expansion_cached(a: int, tau_real, tau_imag, degree: int, prec: int):
         for i in range(j + 1):
             v_i = _power(v, i, degree, ctx)
             sums = [_image_sum(q, j - i, s - n, ctx) for n in range(degree + 1)]
-            forward = {(n, 0): two_pi_i ** n / ctx.factorial(n) * sums[n] for n in range(degree + 1)}
+            forward = {(n, 0): two_pi_i ** n / ctx.factorial(n) * sums[n]
+                       for n in range(degree + 1)}
             backward = {(n, 0): (-two_pi_i) ** n / ctx.factorial(n) * sums[n]
                         for n in range(degree + 1)}
             analytic = poly_add(analytic, poly_mul(v_i, forward, degree), kappa * comb(j, i))

@@ -18,15 +18,15 @@ over the simplex of gaps is a (confluent) divided difference of exp at the nodes
 -2 pi tau2 W_g (W_g integers), so every configuration of the m_e is summed exactly.
 
 The sum over the conserved m_e (one integer per independent cycle) is done by
-shells k = max_e |m_e| using the graph's symmetries.  The shells decay only like a
-power of k (near coinciding u's the kernels decay like e^(-2 pi |m| tau2 |x|)),
-so the tail beyond the last shell K is extrapolated: a fit of the shells to
-c_0 k^-s (1 + c_1/k + ...) with the power s found from the data, summed with
-Hurwitz zeta functions; the error estimate is the spread between fits of
-different orders and windows plus the size of the tail change between K/2 and K
-predicted by the best fit.  This limits the method to roughly 10-14 digits:
-it is the general fallback and the independent check; cycles of bundles
-(trihedral graphs) go through :mod:`ledger.mgf.bundle_cycle` instead.
+shells k = max_e |m_e|, one orbit of the graph's symmetries at a time.  The shells
+decay only like a power of k (near coinciding u's the kernels decay like
+e^(-2 pi |m| tau2 |x|)): the power follows from power counting of the subgraphs
+that can carry large m, and the tail beyond the last shell K is extrapolated
+(:mod:`ledger.mgf.shell_extrapolation`), with an error estimate from the
+extrapolation at 3K/4.  K grows until the digits asked for are reached or the
+time budget would be exceeded; about 12-14 digits for the weight-6 tetrahedral
+graph in a minute or two.  This is the general fallback and the independent
+check; cycles of bundles (trihedral graphs) go through :mod:`ledger.mgf.bundle_cycle`.
 
 >>> import mpmath
 >>> from ledger.mgf.graph import Graph
@@ -48,9 +48,11 @@ import mpmath
 
 from ledger.errors import LedgerError
 from ledger.mgf.approx import export
+from ledger.mgf.bernoulli import bernoulli_polynomial
 from ledger.mgf.graph import Graph, check_convergence
 from ledger.mgf.jobs import Job, ensure_job
 from ledger.mgf.modular import to_fundamental_domain
+from ledger.mgf.shell_extrapolation import extrapolate, shell_power
 from ledger.mgf.values import Value
 
 GUARD_BITS = 40
@@ -185,7 +187,6 @@ class _Integrator:
         ctx = self.ctx
         tau2, tau1 = self.tau2, self.tau1
         if m == 0:
-            from ledger.mgf.bernoulli import bernoulli_polynomial
             scale = (-1) ** (a + 1) * (4 * ctx.pi * tau2) ** a / ctx.factorial(2 * a)
             poly = [self._gmp_complex(scale * ctx.mpf(c.numerator) / c.denominator)
                     for c in bernoulli_polynomial(2 * a)]
@@ -222,7 +223,8 @@ class _Integrator:
                 phase_key = tuple(m for m, (_, _, wrap) in zip(ms, arcs) if wrap)
                 shift = sum(phase_key)
                 if shift not in wrap_phase:
-                    wrap_phase[shift] = self._gmp_complex(self.ctx.expj(-2 * self.ctx.pi * shift * self.tau1))
+                    phase = self.ctx.expj(-2 * self.ctx.pi * shift * self.tau1)
+                    wrap_phase[shift] = self._gmp_complex(phase)
                 state = {((0,) * n, (0,) * n): wrap_phase[shift]}
                 for kernel, (arc, rest, _) in zip(kernels, arcs):
                     state = _apply_kernel(state, kernel, arc, rest, n)
@@ -254,7 +256,8 @@ class _Integrator:
                 if w_j == w_i:
                     continue
                 gap = step * (w_j - w_i)   # x_i - x_j
-                inverse = [(-1) ** k * math.comb(n_j + k - 1, k) / gap ** (n_j + k) for k in range(n_i)]
+                inverse = [(-1) ** k * math.comb(n_j + k - 1, k) / gap ** (n_j + k)
+                           for k in range(n_i)]
                 series = [sum(series[a] * inverse[k - a] for a in range(k + 1)) for k in range(n_i)]
             total += gmpy2.exp(x_i) * series[n_i - 1]
         return total
@@ -273,7 +276,8 @@ def _apply_kernel(state, kernel, arc, rest, n):
             if size:
                 weights = tuple(w + size if g in gaps else w for g, w in enumerate(weights))
             for increment, coefficient in expansion:
-                new = monomial if increment is None else tuple(k + d for k, d in zip(monomial, increment))
+                new = (monomial if increment is None
+                       else tuple(k + d for k, d in zip(monomial, increment)))
                 key = (weights, new)
                 out[key] = out.get(key, 0) + c * coefficient
     return out
@@ -300,7 +304,8 @@ def _polynomial_in_gaps(poly, gaps, n):
 def _compositions(total: int, parts: int) -> tuple:
     if parts == 1:
         return ((total,),)
-    return tuple((k,) + rest for k in range(total + 1) for rest in _compositions(total - k, parts - 1))
+    return tuple((k,) + rest for k in range(total + 1)
+                 for rest in _compositions(total - k, parts - 1))
 
 
 def _geometric_moments(r, top: int, ctx) -> list:
@@ -322,7 +327,7 @@ def _geometric_moments(r, top: int, ctx) -> list:
 # --- the sum over the m_e ----------------------------------------------------------
 
 class _Orbits:
-    """Canonical representatives of m-configurations under the signed edge symmetries and m -> -m."""
+    """Orbits of m-configurations under the signed edge symmetries and m -> -m."""
 
     def __init__(self, symmetry_list):
         self.maps = [(perm, signs) for perm, signs in symmetry_list]
@@ -387,95 +392,6 @@ def _to_mpf(x, ctx):
     return ctx.ldexp(ctx.mpf(int(mantissa)), int(exponent))
 
 
-def shell_power(graph: Graph) -> int:
-    """p with shells ~ k^-p (up to logarithms): 1 + min over subgraphs H with loops
-    of 2 (weight(H) - loops(H)) (power counting of the region where H is hard)."""
-    best = None
-    edges = graph.edges
-    for size in range(1, len(edges) + 1):
-        for subset in itertools.combinations(edges, size):
-            sub = Graph.from_edges(subset)
-            if sub.loops >= 1:
-                value = 2 * (sub.weight - sub.loops)
-                best = value if best is None else min(best, value)
-    return 1 + best
-
-
-def extrapolate(shells, power: int, ctx) -> tuple:
-    """(sum of all shells, error) from exact shells s_0..s_K.
-
-    Models s_k = k^-power (c_0 + c_1/k + ... [+ log k (d_0 + d_1/k + ...)]) are fitted
-    by least squares on the last shells and summed beyond K with Hurwitz zeta
-    functions (and their derivative for log k); the model that best predicts the
-    last shells from the earlier ones is used.  The error is ten times the change of
-    the result when only the shells up to 3K/4 are used (extrapolation from further
-    back is worse), plus the spread among the well-predicting models.
-    """
-    full, spread = _extrapolate_once(shells, power, ctx)
-    short, _ = _extrapolate_once(shells[:(3 * (len(shells) - 1)) // 4 + 1], power, ctx)
-    return full, 10 * abs(full - short) + spread
-
-
-def _extrapolate_once(shells, power: int, ctx) -> tuple:
-    K = len(shells) - 1
-    head = ctx.fsum(shells)
-    candidates = []
-    for logs in (False, True):
-        for order in range(2, 9):
-            unknowns = order * (2 if logs else 1)
-            window = list(range(max(4, K - 3 * unknowns), K + 1))
-            if len(window) < unknowns + 4:
-                continue
-            held = window[-3:]
-            fit = _fit(shells, window[:-3], power, order, logs, ctx)
-            fit_all = _fit(shells, window, power, order, logs, ctx)
-            if fit is None or fit_all is None:
-                continue
-            prediction = max(abs(_model(fit, k, power, order, logs, ctx) - shells[k]) for k in held)
-            tail = _model_tail(fit_all, K, power, order, logs, ctx)
-            scale = prediction / abs(shells[K]) * abs(tail)   # relative misfit carried to the tail
-            candidates.append((scale, tail, order, logs))
-    if not candidates:
-        return head, abs(shells[-1]) * K
-    candidates.sort(key=lambda c: c[0])
-    best = candidates[0]
-    good = [c for c in candidates if c[0] <= 100 * best[0] + ctx.mpf(10) ** (-ctx.dps + 5)]
-    spread = max(abs(c[1] - best[1]) for c in good)
-    return head + best[1], spread
-
-
-def _basis(k, power, order, logs, ctx):
-    k = ctx.mpf(k)
-    row = [k ** (-power - j) for j in range(order)]
-    if logs:
-        row += [ctx.log(k) * k ** (-power - j) for j in range(order)]
-    return row
-
-
-def _fit(shells, window, power, order, logs, ctx):
-    rows = [_basis(k, power, order, logs, ctx) for k in window]
-    try:
-        matrix = ctx.matrix(rows)
-        values = ctx.matrix([shells[k] for k in window])
-        return ctx.qr_solve(matrix, values)[0]
-    except (ZeroDivisionError, ValueError):
-        return None
-
-
-def _model(fit, k, power, order, logs, ctx):
-    return ctx.fsum(c * b for c, b in zip(fit, _basis(k, power, order, logs, ctx)))
-
-
-def _model_tail(fit, K, power, order, logs, ctx):
-    """sum_{k > K} of the model, by Hurwitz zeta (and its s-derivative for log k)."""
-    total = ctx.zero
-    for j in range(order):
-        total += fit[j] * ctx.zeta(power + j, K + 1)
-        if logs:
-            total -= fit[order + j] * ctx.zeta(power + j, K + 1, derivative=1)
-    return total
-
-
 SHELL_SCHEDULE = (12, 16, 20, 24, 28, 32, 40, 48, 56, 64, 80, 96)
 DEFAULT_BUDGET_SECONDS = 600.0
 
@@ -484,7 +400,8 @@ def mixed_route_value(graph: Graph, tau, digits: int = 12, job: Job | None = Non
                       reduce_tau: bool = True, budget_seconds: float = DEFAULT_BUDGET_SECONDS,
                       shells: int | None = None) -> Value:
     """The graph function by the mixed route, shells grown until ``digits`` are reached
-    (or the next step would exceed ``budget_seconds``); ``shells`` fixes the last shell.
+    (or the next step would exceed ``budget_seconds``: the error then says how many
+    digits are right); ``shells`` fixes the last shell.
 
     ``reduce_tau=False`` evaluates at tau as given (for modular-invariance checks).
     """
@@ -492,8 +409,8 @@ def mixed_route_value(graph: Graph, tau, digits: int = 12, job: Job | None = Non
 
     if not isinstance(graph, Graph):
         raise LedgerError(f"mixed_route_value needs a Graph, got {type(graph).__name__}")
-    if isinstance(digits, bool) or not isinstance(digits, int) or not 1 <= digits <= 40:
-        raise LedgerError(f"digits must be an integer between 1 and 40, got {digits!r}")
+    if isinstance(digits, bool) or not isinstance(digits, int) or not 1 <= digits <= 60:
+        raise LedgerError(f"digits must be an integer between 1 and 60, got {digits!r}")
     check_convergence(graph)
     job = ensure_job(job)
     job.check()
@@ -506,6 +423,8 @@ def mixed_route_value(graph: Graph, tau, digits: int = 12, job: Job | None = Non
         raise LedgerError(f"tau must lie in the upper half plane, got {tau}")
     bits = math.ceil(ctx.prec) + GUARD_BITS
     sums = ShellSums(graph, tau, bits)
+    fit = mpmath.MPContext()          # the least-squares fits are ill-conditioned: many digits
+    fit.dps = max(60, 2 * digits + 30)
     power = shell_power(graph)
     schedule = [shells] if shells is not None else list(SHELL_SCHEDULE)
     target = ctx.mpf(10) ** (-digits)
@@ -513,11 +432,11 @@ def mixed_route_value(graph: Graph, tau, digits: int = 12, job: Job | None = Non
     value = error = None
     for index, k in enumerate(schedule):
         values = sums.extend(k, job.part(index / len(schedule), (index + 1) / len(schedule)))
-        value, error = extrapolate([ctx.mpf(v) for v in values], power, ctx)
+        value, error = extrapolate([fit.mpf(v) for v in values], power, fit)
         if error <= target * abs(value) or index + 1 == len(schedule):
             break
         elapsed = time.monotonic() - start
         growth = (schedule[index + 1] / k) ** max(sums.loops, 1)
         if elapsed * growth > budget_seconds:
             break
-    return Value(export(value), export(error + ctx.mpf(10) ** (-digits - 15)), digits)
+    return Value(export(value), export(error + fit.mpf(10) ** (-digits - 15)), digits)

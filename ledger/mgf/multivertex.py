@@ -30,7 +30,8 @@ be reached in reasonable time are not claimed: the error says what is right.
 
 >>> import mpmath
 >>> from ledger.mgf.graph import Graph
->>> v = graph_value(Graph.from_edges([(0, 1, 1), (1, 2, 1), (2, 0, 1)]), mpmath.mpc(0, 1), digits=20)
+>>> triangle = Graph.from_edges([(0, 1, 1), (1, 2, 1), (2, 0, 1)])
+>>> v = graph_value(triangle, mpmath.mpc(0, 1), digits=20)
 >>> abs(v.value - mpmath.zeta(3) / 8) < 1e-15, v.correct_digits() >= 20   # E_3(i) = zeta(3)/8
 (True, True)
 """
@@ -98,7 +99,8 @@ def cycle_bundles(graph: Graph):
 
     >>> cycle_bundles(Graph.from_edges([(0, 1, 1), (0, 1, 1), (1, 2, 2), (2, 0, 1)]))
     [(1, 1), (2,), (1,)]
-    >>> cycle_bundles(Graph.from_edges([(0, 1, 1), (0, 2, 1), (0, 3, 1), (1, 2, 1), (1, 3, 1), (2, 3, 1)])) is None
+    >>> k4 = Graph.from_edges([(0, 1, 1), (0, 2, 1), (0, 3, 1), (1, 2, 1), (1, 3, 1), (2, 3, 1)])
+    >>> cycle_bundles(k4) is None
     True
     """
     bundles: dict = {}
