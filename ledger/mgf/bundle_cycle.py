@@ -262,7 +262,7 @@ def _abel_plana(g, start: int, length, ctx):
               + i int_0^oo (g(start+iy) - g(start-iy)) / (e^(2 pi y) - 1) dy.
 
     The first integral by the trapezoid rule after t = start + length exp(pi/2 sinh v)
-    (it copes with the logarithms in g at infinity), steps 1/8 and 1/6 for the error;
+    (it copes with the logarithms in g at infinity), steps h and 4h/3 for the error;
     the second by Gauss-Legendre on geometric panels (two rule sizes for the error);
     both ranges cover the working precision."""
     start = ctx.mpf(start)
@@ -270,7 +270,8 @@ def _abel_plana(g, start: int, length, ctx):
     low = -math.asinh(2 * reach / math.pi)       # e^(pi/2 sinh v) below e^-reach
     high = math.asinh(2 * reach / (3 * math.pi))  # g ~ t^-4 or faster: t^-3 below e^-reach
     integrals = []
-    for step in (ctx.mpf(1) / 8, ctx.mpf(1) / 6):
+    fine_step = ctx.mpf(1) / (8 * max(1, reach / 45))   # trapezoid error ~ exp(-c/step)
+    for step in (fine_step, 4 * fine_step / 3):
         total = ctx.zero
         for k in range(int(low / step), int(high / step) + 2):
             v = k * step

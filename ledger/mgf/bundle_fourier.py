@@ -42,7 +42,7 @@ from ledger.mgf.quadrature import gauss_legendre, radial_rule
 
 STRIP_HEIGHT = 0.5
 INNER_RADIUS = 0.125      # the product rule covers s <= INNER_RADIUS on every ray
-PHASE_PER_NODE = 0.40     # extra Gauss nodes per radian of oscillation over a panel
+PHASE_PER_NODE = 0.55     # extra Gauss nodes per radian of oscillation over a panel
 BASE_SLOPE = 0.4
 
 
