@@ -200,29 +200,35 @@ def _product_evaluator(series_list, tau, scale, ctx):
     """f(P, Q) = prod_b S_b(P, Q), S_b = sum c P^-a Q^-b Lambda^i with
     Lambda = log(4 pi^2/tau2^2) + log P + log Q (P, Q independent, for analytic continuation).
 
-    Evaluated in fixed point (complex pairs of integers) with P and Q scaled by
-    ``scale`` (about their size), so that powers and coefficients stay moderate."""
+    Each S_b is written P^-a0 Q^-b0 F_b(scale/P, scale/Q) with (a0, b0) its leading
+    powers; F_b (of moderate size) is summed in fixed point (complex pairs of
+    integers, rounded to nearest), the powers P^-a0 Q^-b0 in floating point, so the
+    error stays relative however small f is far out."""
     bits = int(ctx.prec) + 16
     one = 1 << bits
+    half = one >> 1
     fixed = lambda x: int(ctx.nint(ctx.ldexp(x, bits)))  # noqa: E731
     constant = log_constant(tau, ctx)
     scale = ctx.mpf(scale)
-    plans = []
+    plans, leading_a, leading_b = [], 0, 0
     for series in series_list:
+        a0 = min(a for a, _, _ in series)
+        b0 = min(b for _, b, _ in series)
+        leading_a, leading_b = leading_a + a0, leading_b + b0
         groups: dict = {}
         for (a, b, i), c in series.items():
-            c = ctx.mpc(c) * scale ** (-a - b)
-            groups.setdefault((b, i), []).append((a, fixed(c.real), fixed(c.imag)))
+            c = ctx.mpc(c) * scale ** (a0 + b0 - a - b)
+            groups.setdefault((b - b0, i), []).append((a - a0, fixed(c.real), fixed(c.imag)))
         plans.append([(b, i, sorted(terms)) for (b, i), terms in groups.items()])
-    top_a = max(a for s in series_list for a, _, _ in s)
-    top_b = max(b for s in series_list for _, b, _ in s)
-    top_i = max(i for s in series_list for _, _, i in s)
+    top_a = max(a for plan in plans for _, _, terms in plan for a, _, _ in terms)
+    top_b = max(b for plan in plans for b, _, _ in plan)
+    top_i = max(i for plan in plans for _, i, _ in plan)
 
     def powers(zr, zi, count):
         out = [(one, 0)]
         for _ in range(count):
             r, i = out[-1]
-            out.append(((r * zr - i * zi) >> bits, (r * zi + i * zr) >> bits))
+            out.append(((r * zr - i * zi + half) >> bits, (r * zi + i * zr + half) >> bits))
         return out
 
     def evaluate(p, q):
@@ -240,16 +246,17 @@ def _product_evaluator(series_list, tau, scale, ctx):
                     ur, ui = pu[a]
                     gr += cr * ur - ci * ui
                     gi += cr * ui + ci * ur
-                gr, gi = gr >> bits, gi >> bits
+                gr, gi = (gr + half) >> bits, (gi + half) >> bits
                 xr, xi = pw[b]
                 yr, yi = pl[i]
-                zr, zi = (xr * yr - xi * yi) >> bits, (xr * yi + xi * yr) >> bits
+                zr, zi = (xr * yr - xi * yi + half) >> bits, (xr * yi + xi * yr + half) >> bits
                 sr += gr * zr - gi * zi
                 si += gr * zi + gi * zr
-            sr, si = sr >> bits, si >> bits
+            sr, si = (sr + half) >> bits, (si + half) >> bits
             tr, ti = total
-            total = ((tr * sr - ti * si) >> bits, (tr * si + ti * sr) >> bits)
-        return ctx.mpc(ctx.ldexp(total[0], -bits), ctx.ldexp(total[1], -bits))
+            total = ((tr * sr - ti * si + half) >> bits, (tr * si + ti * sr + half) >> bits)
+        value = ctx.mpc(ctx.ldexp(total[0], -bits), ctx.ldexp(total[1], -bits))
+        return value * p ** -leading_a * q ** -leading_b
 
     return evaluate
 

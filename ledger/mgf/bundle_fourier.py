@@ -66,13 +66,11 @@ class _Accumulator:
         self.rows = [[mpz(0)] * (m_max + 1) for _ in range(count)]
 
     def add(self, values, u, v):
-        """Add one node: ``values`` = [w B_b] (fixed point), position (u, v) as mpf-free floats
-        are not used: u, v are fixed-point."""
+        """Add one node: ``values`` = [weight x B_b], position z = u + v tau (all fixed point)."""
         fp = self.fp
         bits = fp.bits
         # e^(-2 pi i n v) for n = -n_max..n_max, packed (real and imaginary parts)
         cr, ci = fp.cos_sin((-self.two_pi * v) >> bits)
-        real, imag = [], []
         pr, pi_ = fp.one, mpz(0)
         forward_r, forward_i = [pr], [pi_]
         for _ in range(self.n_max):
@@ -90,9 +88,6 @@ class _Accumulator:
                 cre, cim = (value * er) >> bits, (value * ei) >> bits
                 self.rows[b][m] += cre * packed_r - cim * packed_i
             er, ei = (er * ar - ei * ai) >> bits, (er * ai + ei * ar) >> bits
-
-    def coefficient(self, b: int, m: int, n: int):
-        return self.fp.unpack(self.rows[b][m], 2 * self.n_max + 1)[n + self.n_max]
 
     def table(self, b: int, points, ctx):
         """{(m, n): coefficient} as global-context mpf, converted without rounding."""
