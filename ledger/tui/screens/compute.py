@@ -19,10 +19,10 @@ from ledger.tui.project_edits import (
     add_recorded_entry, attach_results, guess_slot, same_expression,
 )
 from ledger.tui.screens.base import LedgerScreen
-from ledger.tui.tasks import Task, TaskCancelled, TaskFailed, TaskFinished, TaskProgress
+from ledger.tui.tasks import Task, TaskFinished
 from ledger.tui.widgets.entry_sheet import LABEL_WIDTH, integral_text, laurent_text, values_text
 from ledger.tui.widgets.expression_input import ExpressionInput
-from ledger.tui.widgets.progress_panel import ProgressPanel
+from ledger.tui.widgets.progress_panel import ProgressPanel, TaskPanelMixin
 from ledger.tui.widgets.toggles import TickBox
 
 TASK = "compute"
@@ -35,7 +35,8 @@ def canonical_text(text: str) -> str:
     return to_text(parse(text))
 
 
-class ComputeScreen(LedgerScreen):
+class ComputeScreen(TaskPanelMixin, LedgerScreen):
+    task_name = TASK
     AREA = "compute"
 
     def __init__(self, expression: str = "", attach_to: str | None = None) -> None:
@@ -222,26 +223,12 @@ class ComputeScreen(LedgerScreen):
             lambda answer: answer == "replace" and store(True))
 
     # ---- task messages ----------------------------------------------------
-    def on_task_progress(self, message: TaskProgress) -> None:
-        self.query_one(ProgressPanel).advance(message.fraction, message.text)
-
     def on_task_finished(self, message: TaskFinished) -> None:
         self.query_one(ProgressPanel).stop()
         self.results = message.result
         self.results_expression = self._request_running.expr_text
         self._show_results(message.seconds)
         self.refresh_bindings()
-
-    def on_task_failed(self, message: TaskFailed) -> None:
-        self.query_one(ProgressPanel).stop()
-        self.refresh_bindings()
-
-    def on_task_cancelled(self, message: TaskCancelled) -> None:
-        self.query_one(ProgressPanel).stop()
-        self.refresh_bindings()
-
-    def on_unmount(self) -> None:
-        self.app.tasks.cancel(TASK)
 
     def _show_results(self, seconds: float) -> None:
         table = Table.grid(padding=(0, 1), expand=True)

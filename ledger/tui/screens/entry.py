@@ -11,15 +11,16 @@ from ledger.tui import engine
 from ledger.tui.display import operator_unicode, structure_unicode
 from ledger.tui.project_edits import attach_results, set_notes, set_status
 from ledger.tui.screens.base import LedgerScreen
-from ledger.tui.tasks import Task, TaskCancelled, TaskFailed, TaskFinished, TaskProgress
+from ledger.tui.tasks import Task, TaskFinished
 from ledger.tui.widgets.entry_sheet import EntrySheet
-from ledger.tui.widgets.progress_panel import ProgressPanel
+from ledger.tui.widgets.progress_panel import ProgressPanel, TaskPanelMixin
 
 VALUE_DIGITS = 30
 TASK = "entry"
 
 
-class EntryScreen(LedgerScreen):
+class EntryScreen(TaskPanelMixin, LedgerScreen):
+    task_name = TASK
     AREA = "entry"
 
     def __init__(self, entry_id: str) -> None:
@@ -119,9 +120,6 @@ class EntryScreen(LedgerScreen):
     def action_plot(self) -> None:
         self.app.open_plot(self.entry.coefficient)
 
-    def on_task_progress(self, message: TaskProgress) -> None:
-        self.query_one(ProgressPanel).advance(message.fraction, message.text)
-
     def on_task_finished(self, message: TaskFinished) -> None:
         self.query_one(ProgressPanel).stop()
         entry = self.entry
@@ -129,17 +127,6 @@ class EntryScreen(LedgerScreen):
             attach_results(self.project, entry, message.result)
             self.app.project_changed()
         self.refresh_bindings()
-
-    def on_task_failed(self, message: TaskFailed) -> None:
-        self.query_one(ProgressPanel).stop()
-        self.refresh_bindings()
-
-    def on_task_cancelled(self, message: TaskCancelled) -> None:
-        self.query_one(ProgressPanel).stop()
-        self.refresh_bindings()
-
-    def on_unmount(self) -> None:
-        self.app.tasks.cancel(TASK)
 
 
 def _values_at(expression: str, taus: list[str], digits: int, job) -> dict:

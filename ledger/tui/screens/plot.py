@@ -17,10 +17,10 @@ from ledger.errors import LedgerError
 from ledger.tui import engine
 from ledger.tui.display import coefficient_unicode
 from ledger.tui.screens.base import LedgerScreen
-from ledger.tui.tasks import Task, TaskCancelled, TaskFailed, TaskFinished, TaskProgress
+from ledger.tui.tasks import Task, TaskFinished
 from ledger.tui.widgets.braille_plot import BraillePlot, Series
 from ledger.tui.widgets.expression_input import ExpressionInput
-from ledger.tui.widgets.progress_panel import ProgressPanel
+from ledger.tui.widgets.progress_panel import ProgressPanel, TaskPanelMixin
 
 TASK = "plot"
 DEFAULT_RANGE = ("0", "0.9", "6", "30")  # tau1, tau2 from, tau2 to, points
@@ -30,7 +30,8 @@ def _log10(x: float) -> float:
     return math.log10(x) if x > 0 else math.nan
 
 
-class PlotScreen(LedgerScreen):
+class PlotScreen(TaskPanelMixin, LedgerScreen):
+    task_name = TASK
     AREA = "plot"
 
     def __init__(self, expression: str = "") -> None:
@@ -111,25 +112,11 @@ class PlotScreen(LedgerScreen):
         event.stop()
         self.action_draw()
 
-    def on_task_progress(self, message: TaskProgress) -> None:
-        self.query_one(ProgressPanel).advance(message.fraction, message.text)
-
     def on_task_finished(self, message: TaskFinished) -> None:
         self.query_one(ProgressPanel).stop()
         self.samples = message.result
         self._draw()
         self.refresh_bindings()
-
-    def on_task_failed(self, message: TaskFailed) -> None:
-        self.query_one(ProgressPanel).stop()
-        self.refresh_bindings()
-
-    def on_task_cancelled(self, message: TaskCancelled) -> None:
-        self.query_one(ProgressPanel).stop()
-        self.refresh_bindings()
-
-    def on_unmount(self) -> None:
-        self.app.tasks.cancel(TASK)
 
     def _draw(self) -> None:
         samples = self.samples

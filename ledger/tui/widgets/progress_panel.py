@@ -7,6 +7,8 @@ import time
 from textual.containers import Horizontal
 from textual.widgets import Label, ProgressBar
 
+from ledger.tui.tasks import TaskCancelled, TaskFailed, TaskProgress
+
 
 class ProgressPanel(Horizontal):
     """Hidden while idle; ``start``, ``advance`` and ``stop`` drive it from task messages."""
@@ -44,3 +46,27 @@ class ProgressPanel(Horizontal):
 
     def _show_elapsed(self) -> None:
         self.query_one(".progress-elapsed", Label).update(f"{time.monotonic() - self._started:.0f} s")
+
+
+class TaskPanelMixin:
+    """The shared task-message handling of a screen with one ProgressPanel and one task name.
+
+    The screen sets ``task_name``; failures and cancellations only stop the panel (the
+    app shows the dialog or notification), and leaving the screen cancels its task.
+    """
+
+    task_name = ""
+
+    def on_task_progress(self, message: TaskProgress) -> None:
+        self.query_one(ProgressPanel).advance(message.fraction, message.text)
+
+    def on_task_failed(self, message: TaskFailed) -> None:
+        self.query_one(ProgressPanel).stop()
+        self.refresh_bindings()
+
+    def on_task_cancelled(self, message: TaskCancelled) -> None:
+        self.query_one(ProgressPanel).stop()
+        self.refresh_bindings()
+
+    def on_unmount(self) -> None:
+        self.app.tasks.cancel(self.task_name)
