@@ -31,6 +31,7 @@ from ledger.errors import ConventionError, NotAvailableError
 from ledger.mgf.jobs import ensure_job
 
 REFERENCE_TAUS = ("i", "0.5+0.9i", "0.13+1.72i")
+SECTOR_KEY = "sector_integrands"
 VALUE_DIGITS = 30
 INTEGRAL_DIGITS = 15
 # The conventions that change the coefficients themselves (the others only change
@@ -119,6 +120,7 @@ class MergePlan:
 
     payload: dict
     actions: list = field(default_factory=list)  # (row, entry id or None, action, derived or None)
+    sector_records: list = field(default_factory=list)  # orbifold backgrounds: see sector_records
 
 
 def plan_merge(project, payload: dict, derive: bool = True, job=None) -> MergePlan:
@@ -145,6 +147,10 @@ def plan_merge(project, payload: dict, derive: bool = True, job=None) -> MergePl
         if derive and payload["genus"] == 1 and wants:
             derived = compute_derived(row["expr"] if entry is None else entry.coefficient, part)
         plan.actions.append((row, None if entry is None else entry.id, action, derived))
+    if payload.get(SECTOR_KEY):
+        from ledger.book.sector_records import plan_sector_records
+
+        plan.sector_records = plan_sector_records(payload, job=job)
     return plan
 
 
@@ -160,6 +166,13 @@ def apply_merge(project, plan: MergePlan) -> dict:
                                           {"supercharges": background.supercharges}))
     report = {"path": str(project.path or ""), "added": [], "updated": [], "unchanged": [],
               "verified": [], "differing": []}
+    if plan.sector_records:
+        from ledger.book.sector_records import store_sector_records
+
+        report["sector_integrands"] = store_sector_records(project.background(background.id),
+                                                           plan.sector_records)
+        if report["sector_integrands"]:
+            project.dirty = True
     for row, entry_id, action, derived in plan.actions:
         entry = project.entry(entry_id) if entry_id else None
         if action == "add":

@@ -8,6 +8,7 @@ disagrees with the stored one beyond both error bounds is a difference
 from __future__ import annotations
 
 from ledger.book import Project
+from ledger.book.sector_records import recheck_background
 from ledger.commands.common import print_json
 
 DEFAULT_DIGITS = 15
@@ -17,7 +18,8 @@ def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "check", help="validate project files and recompute their stored values",
         description="Validate each project file; then recompute every stored value at its "
-                    "reference tau (to at most --digits) and compare within the error bounds.")
+                    "reference tau (to at most --digits) and compare within the error bounds "
+                    "(entries, and the sector-summed integrands kept with orbifold backgrounds).")
     parser.add_argument("projects", nargs="+", metavar="PROJECT")
     parser.add_argument("--digits", type=int, default=DEFAULT_DIGITS,
                         help=f"digits for recomputation (default {DEFAULT_DIGITS})")
@@ -63,12 +65,13 @@ def run(args) -> int:
     for project in projects:
         checked = []
         if not args.no_recompute:
-            for entry in project.entries:
-                try:
+            try:
+                for entry in project.entries:
                     checked.extend(recheck_entry(entry, args.digits, project.conventions))
-                except ImportError:
-                    engine_missing = True
-                    break
+                for background in project.backgrounds:
+                    checked.extend(recheck_background(background, args.digits))
+            except ImportError:
+                engine_missing = True
         bad = [c for c in checked if not c["agrees"]]
         differences += len(bad)
         report.append({"project": str(project.path), "entries": len(project.entries),

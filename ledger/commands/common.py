@@ -42,3 +42,23 @@ def decimal_text(value: Value, digits: int) -> str:
 
 def error_text(value: Value) -> str:
     return mpmath.nstr(value.error, 3)
+
+
+def through_identities(compute_for, expr):
+    """``(compute_for(expr), None)``, or when that is not available for a general graph,
+    ``(compute_for(reduced), reduced)`` with the identity table applied (rows name their sources).
+
+    >>> from ledger.expr import parse
+    >>> through_identities(lambda e: e.free_symbols, parse("zeta(3)"))
+    (set(), None)
+    """
+    from ledger.amplitudes.identities import apply_identities
+    from ledger.errors import NotAvailableError
+
+    try:
+        return compute_for(expr), None
+    except NotAvailableError:
+        reduced = apply_identities(expr)
+        if reduced == expr:
+            raise
+        return compute_for(reduced), reduced

@@ -11,8 +11,7 @@ from __future__ import annotations
 
 import sympy
 
-from ledger.commands.common import print_json
-from ledger.commands.common import decimal_text, error_text
+from ledger.commands.common import decimal_text, error_text, print_json, through_identities
 from ledger.mgf.values import Value
 
 
@@ -41,7 +40,8 @@ def compute(text: str, digits: int = 15, route: str = "auto", job=None) -> dict:
     from ledger.mgf.integrate import integrate_over_fundamental_domain
 
     expr = parse(text)
-    result = integrate_over_fundamental_domain(expr, digits, route, job)
+    result, reduced = through_identities(
+        lambda e: integrate_over_fundamental_domain(e, digits, route, job), expr)
     exact = result.exact is not None
     decimal = decimal_text(result.value, digits)
     return {
@@ -56,6 +56,7 @@ def compute(text: str, digits: int = 15, route: str = "auto", job=None) -> dict:
         "route": result.route,
         "checks": [{"route": name, "value": decimal_text(v, digits), "error": error_text(v)}
                    for name, v in result.checks],
+        **({"via_identities": to_text(reduced)} if reduced is not None else {}),
     }
 
 
@@ -68,6 +69,8 @@ def run(args) -> int:
         print_json(payload)
         return 0
     print(f"RN int_F {payload['expr']} d^2tau/tau2^2 = {payload['value']}")
+    if "via_identities" in payload:
+        print(f"  (through the identity table: {payload['expr']} = {payload['via_identities']})")
     if payload["exact"]:
         print(f"  = {payload['decimal']}")
     else:

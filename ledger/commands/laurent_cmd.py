@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import sympy
 
-from ledger.commands.common import decimal_text, error_text, print_json
+from ledger.commands.common import decimal_text, error_text, print_json, through_identities
 from ledger.mgf.values import Value
 
 
@@ -32,7 +32,7 @@ def compute(text: str, digits: int = 30, job=None) -> dict:
     from ledger.mgf.laurent import laurent_polynomial
 
     expr = parse(text)
-    polynomial = laurent_polynomial(expr, digits, job)
+    polynomial, reduced = through_identities(lambda e: laurent_polynomial(e, digits, job), expr)
     terms = []
     for power, c in polynomial.terms:
         if isinstance(c, Value):
@@ -40,7 +40,8 @@ def compute(text: str, digits: int = 30, job=None) -> dict:
         else:
             terms.append({"power": power, "coefficient": sympy.sstr(c)})
     return {"expr": to_text(expr), "variable": "y", "variable_definition": "pi*tau2",
-            "terms": terms, "exact": polynomial.exact, "text": polynomial.to_text()}
+            "terms": terms, "exact": polynomial.exact, "text": polynomial.to_text(),
+            **({"via_identities": to_text(reduced)} if reduced is not None else {})}
 
 
 def run(args) -> int:
@@ -52,6 +53,8 @@ def run(args) -> int:
         print_json({k: v for k, v in payload.items() if k != "text"})
         return 0
     print(f"{payload['expr']} = {payload['text']} + O(exp(-2y)),  y = pi*tau2")
+    if "via_identities" in payload:
+        print(f"  (through the identity table: {payload['expr']} = {payload['via_identities']})")
     if not payload["exact"]:
         inexact = [t for t in payload["terms"] if "error" in t]
         print(f"{len(inexact)} coefficient(s) not identified exactly (decimals with errors):")

@@ -238,11 +238,13 @@ class LedgerApp(App):
         from ledger.tui.dialogs.expand import ExpandDialog
 
         try:
-            from ledger.amplitudes.backgrounds import FLAT_BACKGROUNDS
+            from ledger.amplitudes.backgrounds import known_backgrounds
         except ImportError:
-            FLAT_BACKGROUNDS = ()
+            known = {}
+        else:
+            known = known_backgrounds()
         order = [b.id for b in self.project.backgrounds]
-        choices = sorted(((b.id, f"{b.id}: {b.name}") for b in FLAT_BACKGROUNDS),
+        choices = sorted(((b.id, f"{b.id}: {b.name}") for b in known.values()),
                          key=lambda c: order.index(c[0]) if c[0] in order else len(order))
         self.push_screen(ExpandDialog(choices), self._merge_expansion)
 
@@ -263,6 +265,9 @@ class LedgerApp(App):
             message += f"; cited and confirmed: {', '.join(report['verified'])}"
         if report["differing"]:
             message += f"; different coefficient (marked conflict): {', '.join(report['differing'])}"
+        if "sector_integrands" in report:
+            message += (f"; sector-summed integrands kept with the background: "
+                        f"{', '.join(report['sector_integrands']) or 'none changed'}")
         self.notify(message, title="Expansion", timeout=10)
 
     def delete_entry(self, entry_id: str) -> None:

@@ -81,9 +81,11 @@ def sympy_unicode(text: str) -> str:
     >>> sympy_unicode("pi*log(2)*zeta(3)/45")
     'π log(2)ζ(3)/45'
     """
-    try:
-        value = sympy.sympify(text)
-    except (sympy.SympifyError, TypeError, SyntaxError):
+    from ledger.book.quantities import parse_exact
+
+    try:  # never sympify file text: parse_exact reads only the names it allows
+        value = parse_exact(text)
+    except LedgerError:
         return text
     return _unicode_sstr(sympy.sstr(value))
 
@@ -108,12 +110,14 @@ def laurent_unicode(laurent: dict) -> str:
     ...                                          {"power": 2, "coefficient": "1/45"}]})
     'y²/45 + ζ(3)/y'
     """
+    from ledger.book.quantities import parse_exact
+
     variable = sympy.Symbol(laurent.get("variable", "y"), positive=True)
     pieces = []
     for term in sorted(laurent.get("terms", []), key=lambda t: -int(t["power"])):
         try:
-            coefficient = sympy.sympify(str(term["coefficient"]))
-        except (sympy.SympifyError, TypeError, SyntaxError):
+            coefficient = parse_exact(str(term["coefficient"]))
+        except LedgerError:
             pieces.append(f"({term['coefficient']}) {variable}{superscript(term['power'])}")
             continue
         if coefficient == 0:

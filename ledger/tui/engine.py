@@ -144,23 +144,15 @@ def compute(request: ComputeRequest, job: Optional[Job] = None) -> dict:
     return result
 
 
-def _special_constants() -> dict:
-    from ledger.mgf.rankin_selberg import zeta_prime
-    from ledger.mgf.zeta_basis import zeta_sv
-
-    return {"zeta_sv": zeta_sv, "zeta_prime": zeta_prime}
-
-
-_SPECIAL_CONSTANTS = _special_constants()
-
-
 def laurent_at(laurent: dict, tau2, ctx=None):
     """The stored Laurent polynomial evaluated at y = pi * tau2."""
+    from ledger.book.quantities import parse_exact
+
     ctx = ctx or _context(PLOT_DIGITS)
     y = ctx.pi * ctx.mpf(tau2)
     total = ctx.mpf(0)
     for term in laurent.get("terms", []):
-        coefficient = sympy.sympify(str(term["coefficient"]), locals=_SPECIAL_CONSTANTS)
+        coefficient = parse_exact(str(term["coefficient"]), "a stored Laurent coefficient")
         total += ctx.mpf(sympy.N(coefficient, ctx.dps)) * y ** int(term["power"])
     return total
 

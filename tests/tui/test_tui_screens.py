@@ -223,3 +223,31 @@ async def test_expand_dialog_adds_entries():
 
 def test_example_projects_exist():
     assert sorted((ROOT / "projects").glob("*.toml")), "no example projects to open"
+
+
+async def test_orbifold_sector_integrands_sheet(tmp_path):
+    # An orbifold project filled through the same functions as `expand --into`; the tree's
+    # "sector integrands" node shows them in place of the entries table.
+    from ledger.book import Project
+    from ledger.book.fill import merge_expansion
+    from ledger.commands.expand_cmd import compute
+
+    path = tmp_path / "z2.toml"
+    project = Project.new("Z2 limit")
+    project.path = path
+    merge_expansion(project, compute(2, False, False, "t4z2-iib"))
+    project.save()
+    app = create_app(str(path))
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        tree = app.screen.query_one("#orders")
+        node = next(n for n in (tree.get_node_at_line(i) for i in range(tree.last_line + 1))
+                    if n is not None and (n.data or {}).get("sectors"))
+        tree.focus()
+        tree.move_cursor(node)
+        await settle(pilot, lambda: "I_2 = −6 E₂" in screen_text(app))
+        text = screen_text(app)
+        # -6 E_2 = -2y^2/15 - 6 zeta(3)/y: E_2's Laurent polynomial y^2/45 + zeta(3)/y
+        # (common practice), and I_1 = -16 log 2 for the 16 fixed points of T^4/Z_2
+        assert "−2y²/15 − 6ζ(3)/y" in text and "I_1 = −16 log(2)" in text
+        assert not app.screen.query_one(EntriesTable).display

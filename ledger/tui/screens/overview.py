@@ -2,13 +2,14 @@
 
 from __future__ import annotations
 
-from textual.containers import Horizontal, Vertical
+from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.widgets import DataTable, Input, Tree
 
 from ledger.tui.display import coefficient_unicode
 from ledger.tui.screens.base import LedgerScreen
 from ledger.tui.widgets.entries_table import COLUMNS, SORTABLE, EntriesTable
 from ledger.tui.widgets.orders_tree import OrdersTree, describe, matches
+from ledger.tui.widgets.sector_sheet import SectorSheet
 
 _LABELS = dict(COLUMNS)
 
@@ -36,6 +37,8 @@ class OverviewScreen(LedgerScreen):
                 yield Input(id="filter", compact=True,
                             placeholder="/ filter: id, operator, coefficient, status, source, notes")
                 yield EntriesTable(id="entries")
+                with VerticalScroll(id="sector-pane"):
+                    yield SectorSheet(id="sector-sheet")
 
     def on_mount(self) -> None:
         self.refresh_from_project()
@@ -53,6 +56,13 @@ class OverviewScreen(LedgerScreen):
 
     def refill(self) -> None:
         table = self.query_one(EntriesTable)
+        sectors = "sectors" in self.scope and self.project.background(self.scope["background"]) is not None
+        table.display = not sectors
+        self.query_one("#sector-pane").display = sectors
+        if sectors:
+            self.query_one(SectorSheet).show_background(self.project.background(self.scope["background"]))
+            self.query_one("#sector-pane").border_title = describe(self.scope)
+            return
         entries = self.visible_entries()
         table.show(entries, self.sort_column, self.sort_reverse,
                    tuple(b.id for b in self.project.backgrounds))

@@ -16,7 +16,8 @@ def _operator(weight: int) -> str:
 
 
 class OrdersTree(Tree):
-    """Node data: {} (everything), {"background"}, {+ "genus"}, {+ "operator"}."""
+    """Node data: {} (everything), {"background"}, {+ "genus"}, {+ "operator"}, or
+    {"background", "sectors": True} for an orbifold's sector-summed integrands (not entries)."""
 
     def __init__(self, **kwargs) -> None:
         super().__init__("entries", **kwargs)
@@ -42,7 +43,16 @@ class OrdersTree(Tree):
                              + (f"({count})" if count else "(none)"))
                     genus_node.add_leaf(label, data={"background": background.id, "genus": genus,
                                                      "operator": _operator(weight)})
+            self._add_sector_integrands(node, background)
         self._restore_cursor(selected)
+
+    @staticmethod
+    def _add_sector_integrands(node, background) -> None:
+        """Orbifold backgrounds: one node for the sector-summed integrands kept with them."""
+        records = background.extra.get("sector_integrands")
+        if isinstance(records, list) and records:
+            node.add_leaf(f"sector integrands ({len(records)})",
+                          data={"background": background.id, "sectors": True})
 
     def _restore_cursor(self, data) -> None:
         if data is None:
@@ -55,8 +65,9 @@ class OrdersTree(Tree):
 
 
 def matches(entry, scope: dict) -> bool:
-    """Whether an entry lies inside a tree node's scope."""
-    return all(getattr(entry, field) == value for field, value in scope.items())
+    """Whether an entry lies inside a tree node's scope (no entry lies in a sectors node)."""
+    return "sectors" not in scope and all(getattr(entry, field) == value
+                                          for field, value in scope.items())
 
 
 def describe(scope: dict) -> str:
@@ -64,6 +75,8 @@ def describe(scope: dict) -> str:
     if not scope:
         return "all backgrounds"
     parts = [scope["background"]]
+    if "sectors" in scope:
+        parts.append("sector integrands")
     if "genus" in scope:
         parts.append(genus_label(scope["genus"]))
     if "operator" in scope:
