@@ -217,7 +217,8 @@ def _needs_derived(entry) -> bool:
 
 def _note(payload: dict) -> str:
     if payload["genus"] == 0:
-        return ("tree level, T = Gamma(1-s)Gamma(1-t)Gamma(1-u)/(s t u Gamma(1+s)Gamma(1+t)"
+        note = ("tree level, T = Gamma(1-s)Gamma(1-t)Gamma(1-u)/(s t u Gamma(1+s)Gamma(1+t)"
                 "Gamma(1+u)), pole 3/sigma3 excluded")
+        return f"{note}; {payload['note']}" if payload.get("note") else note
     form = "after known identities" if payload.get("reduced") else "raw graph form"
     return f"genus-one integrand B_(p,q), {form}"

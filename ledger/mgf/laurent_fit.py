@@ -132,8 +132,9 @@ def _fit(graph, powers, leading, value_digits, variant, values, job) -> dict:
             raise
         except LedgerError as refused:
             raise NotAvailableError(
-                f"the Laurent polynomial of {graph.text()} is fitted to values with {value_digits} digits "
-                f"at tau2 up to {mpmath.nstr(y_max / ctx.pi, 3)}, which the evaluator cannot give: {refused}"
+                f"only the leading term {leading} y^{w} of the Laurent polynomial of {graph.text()} is "
+                f"known exactly; the others are fitted to values with {value_digits} digits at tau2 up "
+                f"to {mpmath.nstr(y_max / ctx.pi, 3)}, which the evaluator cannot give: {refused}"
             ) from refused
         value, error = ctx.re(ctx.convert(v.value)), ctx.convert(v.error)
         rows.append([z ** (w - p) for p in powers])
