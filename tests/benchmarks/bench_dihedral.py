@@ -15,6 +15,8 @@ import time
 
 import mpmath
 
+from accuracy import true_digits
+
 GRAPHS = [
     (1, 1, 1), (2, 1, 1), (1, 1, 1, 1), (3, 1, 1), (2, 2, 1), (2, 1, 1, 1), (1, 1, 1, 1, 1),
     (4, 1, 1), (3, 2, 1), (2, 2, 2), (3, 1, 1, 1), (2, 2, 1, 1), (2, 1, 1, 1, 1),
@@ -23,15 +25,6 @@ GRAPHS = [
 TAUS = {"i": mpmath.mpc(0, 1), "0.27+1.31i": mpmath.mpc("0.27", "1.31"),
         "rho+0.01i": mpmath.mpc(-0.5, 0.8760254037844386)}
 PEER_GRAPHS = [(1, 1, 1), (2, 1, 1), (2, 2, 1), (1, 1, 1, 1), (1, 1, 1, 1, 1)]
-
-
-def _true_digits(value, reference) -> float:
-    ctx = mpmath.MPContext()
-    ctx.dps = 60
-    difference = abs(ctx.convert(value) - ctx.convert(reference))
-    if difference == 0:
-        return 60.0
-    return float(-ctx.log10(difference / abs(ctx.convert(reference))))
 
 
 def run(report) -> None:
@@ -46,7 +39,7 @@ def run(report) -> None:
             seconds = time.process_time() - start
             reference = dihedral_value(weights, tau, digits=45)
             name = f"C{weights} at {label}, 30 digits"
-            report(name, seconds, _true_digits(value.value, reference.value),
+            report(name, seconds, true_digits(value.value, reference.value),
                    note=f"claimed error {mpmath.nstr(value.error, 2)}")
     for weights in PEER_GRAPHS:
         tau = TAUS["0.27+1.31i"]
@@ -55,9 +48,9 @@ def run(report) -> None:
         value = dihedral_value(weights, tau, digits=12)
         engine_seconds = time.process_time() - start
         peer_value, _, peer_seconds = peer_dihedral(weights, complex(tau), target_digits=12)
-        peer_digits = _true_digits(mpmath.mpf(peer_value), reference)
+        peer_digits = true_digits(mpmath.mpf(peer_value), reference)
         report(f"C{weights} at 0.27+1.31i, 12 digits (peer {peer_seconds:.1f} s)",
-               engine_seconds, _true_digits(value.value, reference), peer_seconds / engine_seconds,
+               engine_seconds, true_digits(value.value, reference), peer_seconds / engine_seconds,
                note=f"peer reached {peer_digits:.1f} true digits (its best if below 12); "
                     "15 digits: out of the peer's reach (float64)")
 

@@ -18,6 +18,8 @@ import time
 import mpmath
 import numpy as np
 
+from accuracy import true_digits
+
 TAUS = {"0.27+1.31i": mpmath.mpc("0.27", "1.31"), "i": mpmath.mpc(0, 1)}
 TRIHEDRALS = {
     "(1;11;11) w5": [(1,), (1, 1), (1, 1)],
@@ -28,15 +30,6 @@ TRIHEDRALS = {
 }
 DIHEDRAL_CYCLES = {"C(2,1,1) as (11;1;1)": ([(1, 1), (1,), (1,)], (2, 1, 1)),
                    "C(1,1,1,1,1) as (11;111)": ([(1, 1), (1, 1, 1)], (1, 1, 1, 1, 1))}
-
-
-def _true_digits(value, reference) -> float:
-    ctx = mpmath.MPContext()
-    ctx.dps = 60
-    difference = abs(ctx.convert(value) - ctx.convert(reference))
-    if difference == 0:
-        return 60.0
-    return float(-ctx.log10(difference / abs(ctx.convert(reference))))
 
 
 def _timed(function, *args, **kwargs):
@@ -98,34 +91,34 @@ def run(report) -> None:
             value, seconds = _timed(cycle_value, bundles, tau, 20)
             reference = cycle_value(bundles, tau, 28).value
             report(f"trihedral {name} at {label}, 20 digits", seconds,
-                   _true_digits(value.value, reference),
+                   true_digits(value.value, reference),
                    note=f"claimed error {mpmath.nstr(value.error, 2)}")
     tau = TAUS["0.27+1.31i"]
     for name, (bundles, weights) in DIHEDRAL_CYCLES.items():
         value, seconds = _timed(cycle_value, bundles, tau, 20)
         reference = dihedral_value(weights, tau, 40).value
-        report(f"{name} at 0.27+1.31i, 20 digits", seconds, _true_digits(value.value, reference),
+        report(f"{name} at 0.27+1.31i, 20 digits", seconds, true_digits(value.value, reference),
                note="reference: the dihedral engine (another method)")
     square = Graph.from_edges([(0, 1, 1), (0, 1, 1), (1, 2, 1), (2, 3, 1), (2, 3, 1), (3, 0, 1)])
     value, seconds = _timed(graph_value, square, tau, 12)
     reference = graph_value(square, tau, 22).value
     peer_value, peer_seconds = peer_cycle(complex(tau), [(1, 1), (1,), (1, 1), (1,)])
-    report("doubled square at 0.27+1.31i, 12 digits", seconds, _true_digits(value.value, reference),
+    report("doubled square at 0.27+1.31i, 12 digits", seconds, true_digits(value.value, reference),
            peer_seconds / seconds,
-           note=f"peer (plain lattice sum) reached {_true_digits(peer_value, reference):.1f} "
+           note=f"peer (plain lattice sum) reached {true_digits(peer_value, reference):.1f} "
                 f"true digits in {peer_seconds:.0f} s")
     k4 = Graph.from_edges([(0, 1, 1), (0, 2, 1), (0, 3, 1), (1, 2, 1), (1, 3, 1), (2, 3, 1)])
     value, seconds = _timed(graph_value, k4, tau, 12)
     reference = mixed_route_value(k4, tau, digits=16, shells=64)
-    report("K4 at 0.27+1.31i, 12 digits", seconds, _true_digits(value.value, reference.value),
+    report("K4 at 0.27+1.31i, 12 digits", seconds, true_digits(value.value, reference.value),
            note=f"claimed error {mpmath.nstr(value.error, 2)}; reference: 64 shells, "
                 f"its own error {mpmath.nstr(reference.error, 2)}")
     peer_value, peer_seconds = peer_cycle(complex(tau), [(1,), (1, 1), (1, 1)])
     value, seconds = _timed(cycle_value, [(1,), (1, 1), (1, 1)], tau, 12)
     reference = cycle_value([(1,), (1, 1), (1, 1)], tau, 24).value
     report("trihedral (1;11;11) at 0.27+1.31i, 12 digits", seconds,
-           _true_digits(value.value, reference), peer_seconds / seconds,
-           note=f"peer (plain lattice sum) reached {_true_digits(peer_value, reference):.1f} "
+           true_digits(value.value, reference), peer_seconds / seconds,
+           note=f"peer (plain lattice sum) reached {true_digits(peer_value, reference):.1f} "
                 f"true digits in {peer_seconds:.0f} s")
 
 
