@@ -133,8 +133,11 @@ def test_identity_holds_numerically(identity):
 
 @pytest.mark.slow
 @pytest.mark.parametrize("tau", TAU_POINTS[1:], ids=str)
-@pytest.mark.parametrize("identity", IDENTITIES, ids=lambda i: i.lhs)
+@pytest.mark.parametrize("identity", [i for i in IDENTITIES if not i.lhs.startswith("graph(")],
+                         ids=lambda i: i.lhs)
 def test_identity_holds_numerically_at_more_points(identity, tau):
+    # (the general-graph row is confirmed at a second tau, by a relation found independently,
+    # in tests/mgf/test_multivertex.py::test_weight_five_trihedral_lies_in_the_weight_five_span)
     _check_numerically(identity, tau)
 
 
