@@ -101,3 +101,12 @@ def test_refilling_changes_nothing(filled):
     again = run("expand", "--order", "3", "--background", "t4z3-iia", "--into", str(path))
     assert again.returncode == 0 and "none changed" in again.stdout
     assert path.read_bytes() == before
+
+
+def test_show_lists_the_sector_integrands(filled):
+    path, _, _ = filled
+    result = run("show", str(path))
+    assert result.returncode == 0
+    # 3 (3^(2-2s) - 1) E_s for s = 2, 3 (see above): -8/3 E_2 and -80/27 E_3
+    assert "sector integrand I_2 = -8*E(2)/3" in result.stdout
+    assert "sector integrand I_3 = -80*E(3)/27" in result.stdout

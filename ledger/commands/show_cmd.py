@@ -30,4 +30,8 @@ def run(args) -> int:
             print(f"  {entry.id}  genus {entry.genus}  {entry.operator:<9} {entry.structure:<14} "
                   f"alpha'^{entry.alpha_order}  {entry.coefficient}  [{entry.status}; "
                   f"{entry.provenance.describe()}]")
+        for record in background.extra.get("sector_integrands", []):
+            if isinstance(record, dict):
+                print(f"  sector integrand {record.get('name')} = {record.get('reduced')}"
+                      f"  (RN int_F = {record.get('integral')}; {len(record.get('values', []))} values)")
     return 0
