@@ -13,7 +13,8 @@ with the background, not as entries:
     provenance = {kind = "computed", engine = "..."}
 
 Values are summed sector by sector from the twisted lattice sums; the check
-recomputes them from ``expr`` and ``reduced`` with the general evaluator, a second
+(:mod:`ledger.book.recheck`) recomputes them from ``expr`` and ``reduced`` with the
+general evaluator, a second
 route (here -6 E_2(2i) = -6.4117...).
 
 >>> records = plan_sector_records({"sector_integrands": [
@@ -27,7 +28,6 @@ route (here -6 E_2(2i) = -6.4117...).
 from __future__ import annotations
 
 from ledger import ENGINE_VERSION
-from ledger.errors import ProjectError
 from ledger.mgf.jobs import ensure_job
 
 RECORD_KEY = "sector_integrands"
@@ -78,59 +78,16 @@ def store_sector_records(background, records: list[dict]) -> list[str]:
     return changed
 
 
-def recheck_background(background, digits: int, job=None) -> list[dict]:
-    """Recompute every stored sector-integrand value from its ``expr`` and its ``reduced``
-    form with the general evaluator; one result per stored value."""
-    import mpmath
-
-    from ledger.expr import parse
-    from ledger.expr.tau import parse_tau
-    from ledger.mgf.evaluate import evaluate
-
-    results = []
-    for record in _records(background):
-        where = f"background {background.id!r} sector integrand {record.get('name')!r}"
-        forms = [parse(_text(record, "expr", where)), _reduced_form(_text(record, "reduced", where))]
-        for stored in record.get("values", []):
-            use = max(5, min(int(stored.get("digits", digits)), digits))
-            ctx = mpmath.MPContext()
-            ctx.dps = use + 10
-            stored_value = ctx.mpmathify(_text(stored, "value", where))
-            stored_error = ctx.mpf(stored.get("error", "0"))
-            worst = ctx.zero
-            agrees = True
-            for form in forms:
-                value = evaluate(form, parse_tau(_text(stored, "tau", where)), use, job)
-                difference = abs(stored_value - value.value)
-                worst = max(worst, difference)
-                agrees &= bool(difference <= stored_error + value.error
-                               + ctx.mpf(10) ** (-use) * abs(value.value))
-            results.append({"entry": f"{background.id}:{record.get('name')}", "tau": stored["tau"],
-                            "digits": use, "agrees": agrees, "difference": ctx.nstr(worst, 3)})
-    return results
-
-
-def _reduced_form(text: str):
+def reduced_form(text: str):
     """The reduced integrand: expression text (c*E(s)) or an exact constant (c*log N)."""
     from ledger.book.quantities import parse_exact
-    from ledger.errors import ExpressionError
+    from ledger.errors import ExpressionError, LedgerError
     from ledger.expr import parse
 
     try:
         return parse(text)
-    except ExpressionError:
-        return parse_exact(text, "a sector integrand's reduced form")
-
-
-def _records(background) -> list[dict]:
-    records = background.extra.get(RECORD_KEY, [])
-    if not isinstance(records, list) or not all(isinstance(r, dict) for r in records):
-        raise ProjectError(f"background {background.id!r}: field '{RECORD_KEY}' must be an array of tables")
-    return records
-
-
-def _text(record: dict, key: str, where: str) -> str:
-    value = record.get(key)
-    if not isinstance(value, str):
-        raise ProjectError(f"{where}: field '{key}' must be text, got {value!r}")
-    return value
+    except ExpressionError as not_an_expression:
+        try:
+            return parse_exact(text, "a sector integrand's reduced form")
+        except LedgerError:
+            raise LedgerError(f"reduced form {text!r}: {not_an_expression}") from None

@@ -8,7 +8,7 @@ disagrees with the stored one beyond both error bounds is a difference
 from __future__ import annotations
 
 from ledger.book import Project
-from ledger.book.sector_records import recheck_background
+from ledger.book.recheck import recheck_background, recheck_entry
 from ledger.commands.common import print_json
 
 DEFAULT_DIGITS = 15
@@ -26,36 +26,6 @@ def register(subparsers) -> None:
     parser.add_argument("--no-recompute", action="store_true", help="only validate")
     parser.add_argument("--json", action="store_true")
     parser.set_defaults(run=run)
-
-
-def recheck_entry(entry, digits: int, conventions: dict | None = None, job=None) -> list[dict]:
-    """Recompute the stored values of one entry; one result per stored value.
-
-    The coefficient is read in the project's conventions: the engine evaluates its
-    engine form (same function, engine atoms), which gives the project's own numbers.
-    """
-    import mpmath
-
-    from ledger.book.transform import engine_form
-    from ledger.expr import parse
-    from ledger.expr.tau import parse_tau
-    from ledger.mgf.evaluate import evaluate
-
-    results = []
-    expr = engine_form(parse(entry.coefficient), conventions or {})
-    for stored in entry.derived.get("values", []):
-        use = max(5, min(int(stored.get("digits", digits)), digits))
-        value = evaluate(expr, parse_tau(stored["tau"]), use, job)
-        ctx = mpmath.MPContext()
-        ctx.dps = use + 10
-        stored_value = ctx.mpmathify(stored["value"].replace("i", "j"))
-        stored_error = ctx.mpf(stored.get("error", "0"))
-        difference = abs(stored_value - value.value)
-        tolerance = stored_error + value.error + ctx.mpf(10) ** (-use) * abs(value.value)
-        results.append({"entry": entry.id, "tau": stored["tau"], "digits": use,
-                        "agrees": bool(difference <= tolerance),
-                        "difference": ctx.nstr(difference, 3)})
-    return results
 
 
 def run(args) -> int:
