@@ -82,3 +82,15 @@ def test_new_refuses_existing_file_and_bad_convention(tmp_path):
 
 def test_unknown_option_is_one_line():
     assert_bad_input(run("check", "--frobnicate", str(EXAMPLE)))
+
+
+@pytest.mark.parametrize("name", sorted(p.name for p in (ROOT / "tests" / "fixtures" / "unreadable-stored").iterdir()))
+def test_check_rejects_unreadable_stored_data_without_touching_it(name):
+    # valid projects whose stored numbers or reduced forms cannot be read: found when
+    # recomputing, still bad input (exit 2, one line naming where), file unchanged
+    path = ROOT / "tests" / "fixtures" / "unreadable-stored" / name
+    before = path.read_bytes()
+    result = run("check", str(path))
+    assert_bad_input(result)
+    assert "entry 'e0001'" in result.stderr or "sector integrand 'I_2'" in result.stderr
+    assert path.read_bytes() == before

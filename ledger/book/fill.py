@@ -73,8 +73,11 @@ def compute_derived(coefficient: str, job=None, taus=REFERENCE_TAUS) -> dict:
 
     job = ensure_job(job)
     steps = 2 + len(taus)
-    coefficient = to_text(apply_identities(parse(coefficient)))  # same function, cheaper atoms
+    reduced = to_text(apply_identities(parse(coefficient)))  # same function, cheaper atoms
     derived, missing = {}, []
+    if parse(reduced) != parse(coefficient):
+        derived["computed_from"] = reduced  # says which form the numbers below come from
+    coefficient = reduced
     try:
         laurent = laurent_cmd.compute(coefficient, VALUE_DIGITS, job.part(0, 1 / steps))
         derived["laurent"] = {"variable": "y", "terms": laurent["terms"], "exact": laurent["exact"],

@@ -252,6 +252,11 @@ def convert_derived(derived: dict, source: dict, target: dict, weight: int) -> d
         result["laurent"] = convert_laurent(derived["laurent"], source, target, factor)
     if "integral" in derived:
         result["integral"] = convert_integral(derived["integral"], source, target, factor)
+    if "computed_from" in derived:  # the coefficient's reduced form: converted like it
+        from ledger.expr import parse, to_text
+
+        result["computed_from"] = to_text(convert_coefficient(parse(str(derived["computed_from"])),
+                                                              source, target, weight))
     return result
 
 

@@ -96,6 +96,10 @@ def entry_table(entry, background) -> Table:
         table.add_row("τ-dependence", "none: at tree level the coefficient is a number "
                       "(no Laurent polynomial, values or integral over F)")
     else:
+        if entry.derived.get("computed_from"):
+            table.add_row("Reduced", Text(coefficient_unicode(str(entry.derived["computed_from"]))
+                                          + "\n(same function by the identity table; the data below "
+                                            "are computed from it)", style="dim"))
         table.add_row("Laurent", laurent_text(entry.derived))
         table.add_row("Values", values_text(entry.derived))
         table.add_row("Integral F", integral_text(entry.derived))
