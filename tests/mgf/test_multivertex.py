@@ -369,8 +369,10 @@ def test_weight_five_trihedral_lies_in_the_weight_five_span():
 def test_error_is_honest_at_twenty_digits():
     graph = Graph.from_edges([(0, 1, 1), (0, 1, 1), (1, 2, 1), (1, 2, 1), (2, 0, 1), (2, 0, 1)])
     low = graph_value(graph, TAU, digits=20)
-    high = graph_value(graph, TAU, digits=26)
-    assert low.correct_digits() >= 20
+    # 24 digits asked give ~25 claimed, three orders below the 20-digit run's error; 26 asked
+    # costs five times more near this route's precision ceiling without a sharper reference
+    high = graph_value(graph, TAU, digits=24)
+    assert low.correct_digits() >= 20 and high.error < low.error / 100
     assert close(low.value, high.value, low.error, high.error)
 
 
