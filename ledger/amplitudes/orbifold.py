@@ -262,7 +262,7 @@ def sector_summed_integrand(N: int, s: int) -> SectorIntegrand:
                        for d in divisors(N) if d < N), sympy.Integer(0))
     if s == 1:
         return SectorIntegrand(N, s, terms, coefficient, {0: coefficient},
-                               coefficient * sympy.pi / 3, sympy.Integer(0),
+                               sympy.expand(coefficient * sympy.pi / 3), sympy.Integer(0),
                                "constant in tau (distribution relation of the Green's function); "
                                "times vol(F) = pi/3")
     laurent = {power: coefficient * c for power, c in twisted_eisenstein_laurent(s, 0, 0).items()}
