@@ -112,7 +112,8 @@ def laurent_unicode(laurent: dict) -> str:
     """
     from ledger.book.quantities import parse_exact
 
-    variable = sympy.Symbol(laurent.get("variable", "y"), positive=True)
+    name = laurent.get("variable", "y")
+    variable = sympy.Symbol("τ₂" if name == "tau2" else name, positive=True)
     pieces = []
     for term in sorted(laurent.get("terms", []), key=lambda t: -int(t["power"])):
         try:

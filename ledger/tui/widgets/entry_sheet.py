@@ -20,8 +20,9 @@ def laurent_text(derived: dict) -> Text:
         return Text("not computed (l computes it)", style="italic")
     kind = "exact" if laurent.get("exact") else f"numerical, {laurent.get('digits', '?')} digits"
     engine = f", engine {laurent['engine']}" if laurent.get("engine") else ""
-    variable = laurent.get("variable", "y")
-    return Text.assemble(laurent_unicode(laurent), (f"\n{variable} = πτ₂; {kind}{engine}", "dim"))
+    variable = {"y": "y = πτ₂", "tau2": "in τ₂"}.get(laurent.get("variable", "y"),
+                                                   str(laurent.get("variable")))
+    return Text.assemble(laurent_unicode(laurent), (f"\n{variable}; {kind}{engine}", "dim"))
 
 
 def values_text(derived: dict) -> Text:
