@@ -73,6 +73,14 @@ IDENTITIES: tuple[Identity, ...] = (
     Identity("graph(0-1, 0-2:2, 0-2, 1-2, 1-2)",
              "-43/9*E(6) + E(2)*E(4) + 3*C(4,1,1) + 22/3*C(3,2,1) + 13/9*C(2,2,2) - 1/3*C(3,1,1,1)",
              NUMERICAL_WEIGHT_SIX),
+    # a cycle of bundles is sum_p prod_i f_i(p) with one momentum p running round the cycle, so
+    # it does not depend on the order of its bundles: this square (bundles 2, 1, 2, 1) is the
+    # trihedral above with its weight-2 edge opened into a chain (bundles 2, 1, 1, 2)
+    Identity("graph(0-1, 0-1, 0-2, 1-3, 2-3, 2-3)",
+             "8*E(6) - 4*E(2)*E(4) - 8*C(4,1,1) + 2*C(2,2,2) + 4/3*C(3,1,1,1)",
+             "order of bundles in a cycle (common practice), with the weight-6 row for "
+             "graph(0-1:2, 0-2, 0-2, 1-2, 1-2); the fit of NUMERICAL_WEIGHT_SIX finds the same "
+             "combination directly (D'Hoker, Kaidi 2016, arXiv:1608.04393, for such identities)"),
 )
 
 
