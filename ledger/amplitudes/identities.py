@@ -3,8 +3,12 @@
 Each row rewrites one graph function (its left side) as a combination of
 simpler ones, in the form the source states it; a right side may contain the
 left side of another row but the rows never form a cycle, so substituting
-until nothing changes terminates.  Every row names its published source and is
-checked numerically in tests/amplitudes/test_identities.py.
+until nothing changes terminates.  Every row names its source and is checked
+numerically in tests/amplitudes/test_identities.py.  Rows for general graphs
+(weight-5 and weight-6 trihedral graphs, one square) were found in this project
+by exact-rational fits of values from two independent evaluators and say so in
+their source; each also reproduces the graph's independently computed leading
+Laurent coefficient.
 
 >>> from ledger.expr import parse
 >>> apply_identities(parse("3*C(1,1,1) - 3*E(3)"))
