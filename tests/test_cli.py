@@ -94,3 +94,19 @@ def test_check_rejects_unreadable_stored_data_without_touching_it(name):
     assert_bad_input(result)
     assert "entry 'e0001'" in result.stderr or "sector integrand 'I_2'" in result.stderr
     assert path.read_bytes() == before
+
+
+def test_laurent_of_a_weight_six_trihedral_is_exact_through_the_identity_table():
+    # y^6 coefficient 193/11609325: the m = 0 Bernoulli sector computed directly from the graph
+    # (independent of the identity row that gives the rest)
+    from ledger.expr import parse
+    from ledger.mgf.laurent_fit import leading_coefficient
+
+    text = "graph(0-1, 0-1, 0-2, 0-2, 1-2, 1-2)"
+    result = run("laurent", text, "--json")
+    assert result.returncode == 0, result.stderr
+    payload = json.loads(result.stdout)
+    assert payload["exact"] and payload["via_identities"]
+    top = next(t for t in payload["terms"] if t["power"] == 6)
+    leading = leading_coefficient(parse(text).graph)
+    assert top["coefficient"] == f"{leading.numerator}/{leading.denominator}"
