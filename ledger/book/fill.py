@@ -106,10 +106,22 @@ def compute_derived(coefficient: str, job=None, taus=REFERENCE_TAUS) -> dict:
 
 
 def _value_digits(coefficient: str) -> int:
-    """30 digits for Eisenstein and dihedral coefficients, fewer where general graphs appear."""
-    from ledger.expr import GraphFunction, parse
+    """Digits of the stored values: 30 for Eisenstein and dihedral coefficients, 12 where a
+    cycle of bundles appears, 9 where a graph needs the mixed route (K4 and the like: its
+    values stall near 14 digits and cost minutes beyond; the evaluator asks atoms for 3 more).
 
-    return 12 if parse(coefficient).atoms(GraphFunction) else VALUE_DIGITS
+    >>> _value_digits("E(2)"), _value_digits("graph(0-1, 0-2, 0-2, 1-2, 1-2)")
+    (30, 12)
+    >>> _value_digits("graph(0-1, 0-2, 0-3, 1-2, 1-3, 2-3) + E(6)")
+    9
+    """
+    from ledger.expr import GraphFunction, parse
+    from ledger.mgf.multivertex import cycle_bundles
+
+    graphs = [atom.graph for atom in parse(coefficient).atoms(GraphFunction)]
+    if not graphs:
+        return VALUE_DIGITS
+    return 12 if all(cycle_bundles(graph) is not None for graph in graphs) else 9
 
 
 @dataclass
