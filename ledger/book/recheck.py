@@ -15,6 +15,10 @@ A stored value that cannot be read is bad input (a ProjectError naming where).
 
 from __future__ import annotations
 
+import re
+
+import mpmath
+
 from ledger.errors import LedgerError, ProjectError
 
 
@@ -75,15 +79,29 @@ def compare_stored(stored: dict, forms: list, digits: int, label: str, where: st
         tau = parse_tau(_text(stored, "tau", where))
     except (LedgerError, TypeError, ValueError) as error:
         raise ProjectError(f"{where}: {error}") from None
+    rounding = _rounding(str(stored.get("value")), stored_value, ctx)
     worst, agrees = ctx.zero, True
     for form in forms:
         value = evaluate(form, tau, use, job)
         difference = abs(stored_value - value.value)
         worst = max(worst, difference)
-        agrees &= bool(difference <= abs(stored_error) + value.error
+        agrees &= bool(difference <= abs(stored_error) + value.error + rounding
                        + ctx.mpf(10) ** (-use) * abs(value.value))
     return {"entry": label, "tau": stored["tau"], "digits": use, "agrees": agrees,
             "difference": ctx.nstr(worst, 3)}
+
+
+def _rounding(text: str, value, ctx):
+    """A bound on the rounding of a stored decimal: one unit of its last significant digit
+    relative to the value (the stored error bounds the computation, not the printing).
+
+    >>> ctx = mpmath.MPContext()
+    >>> float(_rounding("0.0369402917", ctx.mpf("0.0369402917"), ctx))  # 9 significant digits
+    3.69402917e-10
+    """
+    mantissas = re.findall(r"(\d+(?:\.\d*)?)(?:[eE][+-]?\d+)?", text)
+    significant = max((len(m.replace(".", "").lstrip("0")) for m in mantissas), default=0)
+    return ctx.mpf(10) ** (1 - max(significant, 1)) * abs(value)
 
 
 def _stored_values(values, where: str) -> list:
