@@ -96,8 +96,8 @@ def _rounding(text: str, value, ctx):
     relative to the value (the stored error bounds the computation, not the printing).
 
     >>> ctx = mpmath.MPContext()
-    >>> float(_rounding("0.0369402917", ctx.mpf("0.0369402917"), ctx))  # 9 significant digits
-    3.69402917e-10
+    >>> ctx.nstr(_rounding("0.0369402917", ctx.mpf("0.0369402917"), ctx), 6)  # 9 significant digits
+    '3.69403e-10'
     """
     mantissas = re.findall(r"(\d+(?:\.\d*)?)(?:[eE][+-]?\d+)?", text)
     significant = max((len(m.replace(".", "").lstrip("0")) for m in mantissas), default=0)
