@@ -27,11 +27,11 @@ from dataclasses import dataclass, field
 
 from ledger import ENGINE_VERSION
 from ledger.book.model import Background, Provenance
+from ledger.book.sector_records import RECORD_KEY, plan_sector_records, store_sector_records
 from ledger.errors import ConventionError, NotAvailableError
 from ledger.mgf.jobs import ensure_job
 
 REFERENCE_TAUS = ("i", "0.5+0.9i", "0.13+1.72i")
-SECTOR_KEY = "sector_integrands"
 VALUE_DIGITS = 30
 INTEGRAL_DIGITS = 15
 # The conventions that change the coefficients themselves (the others only change
@@ -73,11 +73,12 @@ def compute_derived(coefficient: str, job=None, taus=REFERENCE_TAUS) -> dict:
 
     job = ensure_job(job)
     steps = 2 + len(taus)
-    reduced = to_text(apply_identities(parse(coefficient)))  # same function, cheaper atoms
+    original = parse(coefficient)
+    reduced = apply_identities(original)  # same function, cheaper atoms
+    coefficient = to_text(reduced)
     derived, missing = {}, []
-    if parse(reduced) != parse(coefficient):
-        derived["computed_from"] = reduced  # says which form the numbers below come from
-    coefficient = reduced
+    if reduced != original:
+        derived["computed_from"] = coefficient  # says which form the numbers below come from
     try:
         laurent = laurent_cmd.compute(coefficient, VALUE_DIGITS, job.part(0, 1 / steps))
         derived["laurent"] = {"variable": "y", "terms": laurent["terms"], "exact": laurent["exact"],
@@ -162,9 +163,7 @@ def plan_merge(project, payload: dict, derive: bool = True, job=None) -> MergePl
         if derive and payload["genus"] == 1 and wants:
             derived = compute_derived(row["expr"] if entry is None else entry.coefficient, part)
         plan.actions.append((row, None if entry is None else entry.id, action, derived))
-    if payload.get(SECTOR_KEY):
-        from ledger.book.sector_records import plan_sector_records
-
+    if payload.get(RECORD_KEY):
         plan.sector_records = plan_sector_records(payload, job=job)
     return plan
 
@@ -182,8 +181,6 @@ def apply_merge(project, plan: MergePlan) -> dict:
     report = {"path": str(project.path or ""), "added": [], "updated": [], "unchanged": [],
               "verified": [], "differing": []}
     if plan.sector_records:
-        from ledger.book.sector_records import store_sector_records
-
         report["sector_integrands"] = store_sector_records(project.background(background.id),
                                                            plan.sector_records)
         if report["sector_integrands"]:

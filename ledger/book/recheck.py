@@ -17,8 +17,6 @@ from __future__ import annotations
 
 import re
 
-import mpmath
-
 from ledger.errors import LedgerError, ProjectError
 
 
@@ -39,14 +37,11 @@ def recheck_entry(entry, digits: int, conventions: dict | None = None, job=None)
 def recheck_background(background, digits: int, job=None) -> list[dict]:
     """Recompute every stored sector-integrand value of a background from its ``expr``
     and from its ``reduced`` form; one result per stored value."""
-    from ledger.book.sector_records import RECORD_KEY, reduced_form
+    from ledger.book.sector_records import reduced_form, sector_records_of
     from ledger.expr import parse
 
-    records = background.extra.get(RECORD_KEY, [])
-    if not isinstance(records, list) or not all(isinstance(r, dict) for r in records):
-        raise ProjectError(f"background {background.id!r}: field '{RECORD_KEY}' must be an array of tables")
     results = []
-    for record in records:
+    for record in sector_records_of(background, strict=True):
         where = f"background {background.id!r} sector integrand {record.get('name')!r}"
         try:
             forms = [parse(_text(record, "expr", where)), reduced_form(_text(record, "reduced", where))]
@@ -95,6 +90,7 @@ def _rounding(text: str, value, ctx):
     """A bound on the rounding of a stored decimal: one unit of its last significant digit
     relative to the value (the stored error bounds the computation, not the printing).
 
+    >>> import mpmath
     >>> ctx = mpmath.MPContext()
     >>> ctx.nstr(_rounding("0.0369402917", ctx.mpf("0.0369402917"), ctx), 6)  # 9 significant digits
     '3.69403e-10'

@@ -33,6 +33,21 @@ from ledger.mgf.jobs import ensure_job
 RECORD_KEY = "sector_integrands"
 
 
+def sector_records_of(background, strict: bool = False) -> list[dict]:
+    """The sector-integrand records kept with a background (none for other backgrounds).
+
+    Lenient for display (anything that is not a table is skipped); ``strict`` makes a
+    malformed field bad input instead, as ``check`` needs.
+    """
+    records = background.extra.get(RECORD_KEY, [])
+    well_formed = isinstance(records, list) and all(isinstance(r, dict) for r in records)
+    if strict and not well_formed:
+        from ledger.errors import ProjectError
+
+        raise ProjectError(f"background {background.id!r}: field '{RECORD_KEY}' must be an array of tables")
+    return [r for r in records if isinstance(r, dict)] if isinstance(records, list) else []
+
+
 def plan_sector_records(payload: dict, taus=None, digits: int | None = None, job=None) -> list[dict]:
     """Project records for the payload's sector integrands, values computed (read-only)."""
     from ledger.amplitudes.orbifold import sector_summed_integrand_value
@@ -67,7 +82,7 @@ def store_sector_records(background, records: list[dict]) -> list[str]:
 
     Returns the names that were added or replaced.
     """
-    kept = {r.get("name"): r for r in background.extra.get(RECORD_KEY, []) if isinstance(r, dict)}
+    kept = {r.get("name"): r for r in sector_records_of(background)}
     changed = []
     for record in records:
         if kept.get(record["name"]) != record:

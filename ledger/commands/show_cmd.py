@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from ledger.book import Project
+from ledger.book.sector_records import sector_records_of
 from ledger.commands.common import print_json
 
 
@@ -30,8 +31,7 @@ def run(args) -> int:
             print(f"  {entry.id}  genus {entry.genus}  {entry.operator:<9} {entry.structure:<14} "
                   f"alpha'^{entry.alpha_order}  {entry.coefficient}  [{entry.status}; "
                   f"{entry.provenance.describe()}]")
-        for record in background.extra.get("sector_integrands", []):
-            if isinstance(record, dict):
-                print(f"  sector integrand {record.get('name')} = {record.get('reduced')}"
-                      f"  (RN int_F = {record.get('integral')}; {len(record.get('values', []))} values)")
+        for record in sector_records_of(background):
+            print(f"  sector integrand {record.get('name')} = {record.get('reduced')}"
+                  f"  (RN int_F = {record.get('integral')}; {len(record.get('values', []))} values)")
     return 0

@@ -56,12 +56,12 @@ class OverviewScreen(LedgerScreen):
 
     def refill(self) -> None:
         table = self.query_one(EntriesTable)
-        sectors = "sectors" in self.scope and self.project.background(self.scope["background"]) is not None
-        table.display = not sectors
-        self.query_one("#sector-pane").display = sectors
-        if sectors:
-            self.query_one(SectorSheet).show_background(self.project.background(self.scope["background"]))
-            self.query_one("#sector-pane").border_title = describe(self.scope)
+        background = self.project.background(self.scope["background"]) if "sectors" in self.scope else None
+        pane = self.query_one("#sector-pane")
+        table.display, pane.display = background is None, background is not None
+        if background is not None:
+            self.query_one(SectorSheet).show_background(background)
+            pane.border_title = describe(self.scope)
             return
         entries = self.visible_entries()
         table.show(entries, self.sort_column, self.sort_reverse,

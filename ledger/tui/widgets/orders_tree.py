@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from textual.widgets import Tree
 
+from ledger.book.sector_records import sector_records_of
 from ledger.tui.display import alpha_unicode, genus_label, operator_unicode
 
 
@@ -49,8 +50,8 @@ class OrdersTree(Tree):
     @staticmethod
     def _add_sector_integrands(node, background) -> None:
         """Orbifold backgrounds: one node for the sector-summed integrands kept with them."""
-        records = background.extra.get("sector_integrands")
-        if isinstance(records, list) and records:
+        records = sector_records_of(background)
+        if records:
             node.add_leaf(f"sector integrands ({len(records)})",
                           data={"background": background.id, "sectors": True})
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from textual.widgets import Static
 
+from ledger.book.sector_records import sector_records_of
 from ledger.tui.display import (coefficient_unicode, error_text, laurent_unicode, short_number,
                                 sympy_unicode)
 
@@ -26,9 +27,7 @@ def sector_sheet_text(background) -> str:
     lines = [f"[b]{background.name}[/b]",
              "I_s = (1/N) Σ over twisted sectors (k,l) of n(k,l) Etw(s, l/N, k/N); "
              "kept with the background: their map to D²ʷR⁴ is not derived.", ""]
-    for record in background.extra.get("sector_integrands", []):
-        if not isinstance(record, dict):
-            continue
+    for record in sector_records_of(background):
         laurent = {"variable": "y", "terms": record.get("laurent", [])}
         lines += [f"[b]{record.get('name', '?')}[/b] = {_reduced_unicode(str(record.get('reduced', '?')))}",
                   f"  sectors: {coefficient_unicode(str(record.get('expr', '?')))}",
